@@ -1,0 +1,94 @@
+package org.cryowarden.rules.engine;
+
+import java.time.Instant;
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import org.cryowarden.rules.Reading;
+import org.cryowarden.rules.TimeSource;
+import org.cryowarden.rules.model.OutputDef;
+
+/**
+ * The engine's runtime graph and the state of the call in progress: the clock readings every part uses during one
+ * call ({@link #now} monotonic, {@link #wall} for timestamps) and the events emitted so far. Single-threaded.
+ */
+final class Core {
+
+    final TimeSource time;
+    final double ambientPa;
+    final TimerQueue timers = new TimerQueue();
+    final Map<String, MeasuredChannel> measured = new LinkedHashMap<>();
+    final Map<String, ChannelNode> channels = new LinkedHashMap<>();
+    final Map<String, AlarmRuntime> alarms = new LinkedHashMap<>();
+    final Map<String, InterlockRuntime> interlocks = new LinkedHashMap<>();
+    final Map<String, OutputDef> outputs = new LinkedHashMap<>();
+
+    /** Monotonic nanoseconds of the call in progress. */
+    long now;
+    /** Wall-clock instant of the call in progress. */
+    Instant wall;
+    /** Whether a reading, tick or command has been processed (after which a restore is refused). */
+    boolean started;
+    private final ArrayList<EngineEvent> events = new ArrayList<>();
+
+    Core(TimeSource time, double ambientPa) {
+        this.time = time;
+        this.ambientPa = ambientPa;
+        this.now = time.monotonicNanos();
+        this.wall = time.wallNow();
+    }
+
+    /** Starts a call: reads the clock, then expires every timer that fell due since the last call. */
+    void begin() {
+        now = time.monotonicNanos();
+        wall = time.wallNow();
+        events.clear();
+        started = true;
+        if (timers.anyDue(now)) {
+            timers.runDue(now);
+        }
+    }
+
+    /** Ends a call, handing back what it emitted. */
+    List<EngineEvent> finish() {
+        if (events.isEmpty()) {
+            return List.of();
+        }
+        List<EngineEvent> result = List.copyOf(events);
+        events.clear();
+        return result;
+    }
+
+    void emit(EngineEvent event) {
+        events.add(event);
+    }
+
+    /** Hands a reading to the rules of its channel, then to the derived channels computed from it. */
+    void deliver(ChannelNode node, Reading reading) {
+        node.latest = reading;
+        for (RuleEvaluator rule : node.rules) {
+            rule.onReading(node, reading);
+        }
+        for (DerivedChannel derived : node.dependents) {
+            Reading computed = derived.recompute(reading);
+            if (computed != null) {
+                deliver(derived, computed);
+            }
+        }
+    }
+
+    /** Whether a tripped interlock other than {@code except} currently drives {@code output}. */
+    boolean heldByOtherTrip(String output, InterlockRuntime except) {
+        for (InterlockRuntime interlock : interlocks.values()) {
+            if (interlock != except && interlock.tripped && interlock.acts(output)) {
+                return true;
+            }
+        }
+        return false;
+    }
+
+    List<String> alarmIds() {
+        return new ArrayList<>(alarms.keySet());
+    }
+}

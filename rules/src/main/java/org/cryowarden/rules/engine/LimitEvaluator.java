@@ -1,0 +1,47 @@
+package org.cryowarden.rules.engine;
+
+import org.cryowarden.rules.Quality;
+import org.cryowarden.rules.Reading;
+import org.cryowarden.rules.Unit;
+import org.cryowarden.rules.model.Direction;
+
+/**
+ * High or low limit with deadband: active once past the setpoint, clear once back past it by the deadband. A BAD or
+ * STALE reading changes nothing (the stale rule reports the fault; an active alarm is not cleared by a dead sensor);
+ * an UNCERTAIN reading may raise the condition but never clears it.
+ */
+final class LimitEvaluator extends RuleEvaluator {
+
+    private final boolean high;
+    private final double setpoint;
+    private final double deadband;
+    private final Unit unit;
+
+    LimitEvaluator(AlarmRuntime alarm, Direction direction, double setpoint, double deadband, Unit unit) {
+        super(alarm);
+        this.high = direction == Direction.HIGH;
+        this.setpoint = setpoint;
+        this.deadband = deadband;
+        this.unit = unit;
+    }
+
+    @Override
+    void onReading(ChannelNode node, Reading reading) {
+        alarm.lastReading = reading;
+        Quality quality = reading.quality();
+        if (quality == Quality.BAD || quality == Quality.STALE) {
+            return;
+        }
+        double value = reading.value();
+        if (!alarm.raw) {
+            if (high ? value > setpoint : value < setpoint) {
+                alarm.condition(true, reading, Texts.reading(reading) + (high ? " above " : " below ")
+                        + Texts.quantity(setpoint, unit));
+            }
+        } else if (quality == Quality.GOOD && (high ? value <= setpoint - deadband : value >= setpoint + deadband)) {
+            alarm.condition(false, reading, Texts.reading(reading) + (high ? " back below " : " back above ")
+                    + Texts.quantity(setpoint, unit) + (deadband == 0 ? "" : " by the deadband of "
+                    + Texts.quantity(deadband, unit)));
+        }
+    }
+}

@@ -1,0 +1,150 @@
+package org.cryowarden.rules.engine;
+
+import java.util.Arrays;
+import org.cryowarden.rules.Quality;
+import org.cryowarden.rules.Reading;
+import org.cryowarden.rules.Unit;
+import org.cryowarden.rules.model.Direction;
+
+/**
+ * Rate of change: the least-squares slope of the GOOD readings of the last window, timed on the engine's monotonic
+ * clock at arrival (so a wall-clock step cannot fake a slope). The fit needs at least three readings spanning at
+ * least half the window, since a slope over a sliver of the window is mostly noise; until then the condition holds.
+ * The sums are kept running (constant cost per reading) and recomputed from the buffer once per buffer length of
+ * evictions, so rounding cannot drift over a long night.
+ */
+final class RateEvaluator extends RuleEvaluator {
+
+    private static final int MINIMUM_POINTS = 3;
+
+    private final Core core;
+    private final boolean rising;
+    private final long windowNanos;
+    /** Threshold in channel units per second. */
+    private final double perSecond;
+    private final Unit channelUnit;
+    private final Unit changeUnit;
+    private final double perSeconds;
+    private final String rateUnit;
+    private final String thresholdText;
+
+    private long[] times = new long[16];
+    private double[] values = new double[16];
+    private int head;
+    private int size;
+    private long base;
+    private double sumX;
+    private double sumY;
+    private double sumXX;
+    private double sumXY;
+    private int evictionsSinceRecompute;
+
+    RateEvaluator(AlarmRuntime alarm, Core core, Direction direction, double perSecond, long windowNanos,
+            Unit channelUnit, Unit changeUnit, double perSeconds, String rateUnit, String thresholdText) {
+        super(alarm);
+        this.core = core;
+        this.rising = direction == Direction.HIGH;
+        this.perSecond = perSecond;
+        this.windowNanos = windowNanos;
+        this.channelUnit = channelUnit;
+        this.changeUnit = changeUnit;
+        this.perSeconds = perSeconds;
+        this.rateUnit = rateUnit;
+        this.thresholdText = thresholdText;
+    }
+
+    @Override
+    void onReading(ChannelNode node, Reading reading) {
+        alarm.lastReading = reading;
+        if (reading.quality() != Quality.GOOD) {
+            return;
+        }
+        long now = core.now;
+        evictBefore(now - windowNanos);
+        add(now, reading.value());
+        if (size < MINIMUM_POINTS || times[index(size - 1)] - times[head] < windowNanos / 2) {
+            return;
+        }
+        double n = size;
+        double slope = (n * sumXY - sumX * sumY) / (n * sumXX - sumX * sumX);
+        boolean past = rising ? slope > perSecond : slope < -perSecond;
+        if (past != alarm.raw) {
+            double shown = channelUnit.differenceTo(changeUnit, slope) * perSeconds;
+            alarm.condition(past, reading, node.id + (rising ? " rising at " : " falling at ")
+                    + Texts.number(Math.abs(shown)) + " " + rateUnit
+                    + (past ? ", faster than " : ", no faster than ") + thresholdText);
+        }
+    }
+
+    private void add(long time, double value) {
+        if (size == times.length) {
+            long[] grownTimes = new long[times.length * 2];
+            double[] grownValues = new double[values.length * 2];
+            for (int i = 0; i < size; i++) {
+                grownTimes[i] = times[index(i)];
+                grownValues[i] = values[index(i)];
+            }
+            times = grownTimes;
+            values = grownValues;
+            head = 0;
+        }
+        if (size == 0) {
+            base = time;
+        }
+        int slot = index(size);
+        times[slot] = time;
+        values[slot] = value;
+        size++;
+        double x = (time - base) * 1e-9;
+        sumX += x;
+        sumY += value;
+        sumXX += x * x;
+        sumXY += x * value;
+    }
+
+    private void evictBefore(long cutoff) {
+        while (size > 0 && times[head] - cutoff < 0) {
+            double x = (times[head] - base) * 1e-9;
+            double value = values[head];
+            sumX -= x;
+            sumY -= value;
+            sumXX -= x * x;
+            sumXY -= x * value;
+            head = (head + 1) % times.length;
+            size--;
+            evictionsSinceRecompute++;
+        }
+        if (evictionsSinceRecompute >= Math.max(size, 16)) {
+            recompute();
+        }
+    }
+
+    private void recompute() {
+        evictionsSinceRecompute = 0;
+        sumX = 0;
+        sumY = 0;
+        sumXX = 0;
+        sumXY = 0;
+        if (size == 0) {
+            return;
+        }
+        base = times[head];
+        for (int i = 0; i < size; i++) {
+            int slot = index(i);
+            double x = (times[slot] - base) * 1e-9;
+            sumX += x;
+            sumY += values[slot];
+            sumXX += x * x;
+            sumXY += x * values[slot];
+        }
+    }
+
+    private int index(int offset) {
+        return (head + offset) % times.length;
+    }
+
+    @Override
+    public String toString() {
+        return "rate " + alarm.id + " " + Arrays.toString(Arrays.copyOf(values, size));
+    }
+}

@@ -1,0 +1,347 @@
+package org.cryowarden.rules.engine;
+
+import java.time.Duration;
+import java.util.ArrayList;
+import java.util.HashMap;
+import java.util.HashSet;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.Optional;
+import java.util.Set;
+import org.cryowarden.rules.Quantity;
+import org.cryowarden.rules.SourcePosition;
+import org.cryowarden.rules.TimeSource;
+import org.cryowarden.rules.Unit;
+import org.cryowarden.rules.model.AlarmOptions;
+import org.cryowarden.rules.model.ChannelDef;
+import org.cryowarden.rules.model.DerivedChannelDef;
+import org.cryowarden.rules.model.DeviationRule;
+import org.cryowarden.rules.model.InterlockDef;
+import org.cryowarden.rules.model.LimitRule;
+import org.cryowarden.rules.model.OutputAction;
+import org.cryowarden.rules.model.OutputDef;
+import org.cryowarden.rules.model.RateRule;
+import org.cryowarden.rules.model.RuleDef;
+import org.cryowarden.rules.model.StaleRule;
+import org.cryowarden.rules.model.VoteRule;
+
+/**
+ * Builds the engine's runtime graph from a configuration: converts every setpoint, deadband, tolerance and rate into
+ * its channel's unit, indexes rules by channel, and refuses anything inconsistent with an
+ * {@link IllegalArgumentException} that names the item and where it was written. The loader validates first and
+ * reports nicer errors; this is the last line, so the engine never runs on garbage.
+ */
+final class Wiring {
+
+    private final EngineConfig config;
+    private final DerivedFunctions functions;
+    private final Core core;
+    private final double ambientPa;
+    private final Map<String, SourcePosition> defined = new HashMap<>();
+    /** Stale timeout of each channel, derived channels inheriting the longest of their inputs. */
+    private final Map<String, Long> staleAfter = new HashMap<>();
+    private final List<StaleEvaluator> staleRules = new ArrayList<>();
+
+    private Wiring(EngineConfig config, TimeSource time, DerivedFunctions functions) {
+        this.config = config;
+        this.functions = functions;
+        this.ambientPa = config.ambientPressurePa();
+        if (!(Double.isFinite(ambientPa) && ambientPa > 0)) {
+            throw new IllegalArgumentException("the ambient pressure must be a positive number of Pa, got " + ambientPa);
+        }
+        this.core = new Core(time, ambientPa);
+    }
+
+    static Core build(EngineConfig config, TimeSource time, DerivedFunctions functions) {
+        Wiring wiring = new Wiring(config, time, functions);
+        wiring.channels();
+        wiring.derived();
+        wiring.outputs();
+        wiring.interlocks();
+        wiring.rules();
+        wiring.start();
+        return wiring.core;
+    }
+
+    private void channels() {
+        for (ChannelDef def : config.channels()) {
+            unique("channel", def.id(), def.position());
+            MeasuredChannel channel = new MeasuredChannel(core, def);
+            core.measured.put(def.id(), channel);
+            core.channels.put(def.id(), channel);
+            staleAfter.put(def.id(), def.staleAfter().toNanos());
+        }
+    }
+
+    private void derived() {
+        Map<String, DerivedChannelDef> pending = new LinkedHashMap<>();
+        for (DerivedChannelDef def : config.derived()) {
+            unique("channel", def.id(), def.position());
+            pending.put(def.id(), def);
+        }
+        for (DerivedChannelDef def : pending.values()) {
+            for (String input : def.inputs()) {
+                if (!core.channels.containsKey(input) && !pending.containsKey(input)) {
+                    throw refuse(def.position(), "derived channel " + def.id(), "unknown input channel '" + input + "'"
+                            + suggest(input, allChannelIds()));
+                }
+                if (input.equals(def.id())) {
+                    throw refuse(def.position(), "derived channel " + def.id(), "cannot be an input of itself");
+                }
+            }
+        }
+        // Kahn's order: a derived channel is wired once all its inputs are; what is left at the end is a cycle.
+        boolean progress = true;
+        while (!pending.isEmpty() && progress) {
+            progress = false;
+            for (var iterator = pending.values().iterator(); iterator.hasNext(); ) {
+                DerivedChannelDef def = iterator.next();
+                if (def.inputs().stream().allMatch(core.channels::containsKey)) {
+                    wireDerived(def);
+                    iterator.remove();
+                    progress = true;
+                }
+            }
+        }
+        if (!pending.isEmpty()) {
+            DerivedChannelDef first = pending.values().iterator().next();
+            throw refuse(first.position(), "derived channel " + first.id(), "its inputs form a cycle through "
+                    + String.join(", ", pending.keySet()));
+        }
+    }
+
+    private void wireDerived(DerivedChannelDef def) {
+        List<Unit> inputUnits = new ArrayList<>();
+        ChannelNode[] inputs = new ChannelNode[def.inputs().size()];
+        long longestStale = 0;
+        for (int i = 0; i < inputs.length; i++) {
+            inputs[i] = core.channels.get(def.inputs().get(i));
+            inputUnits.add(inputs[i].unit);
+            longestStale = Math.max(longestStale, staleAfter.get(inputs[i].id));
+        }
+        BoundFunction bound;
+        try {
+            bound = functions.bind(def, inputUnits, ambientPa);
+        } catch (IllegalArgumentException e) {
+            throw refuse(def.position(), "derived channel " + def.id(), e.getMessage());
+        }
+        DerivedChannel channel = new DerivedChannel(def, inputs, bound);
+        Set<ChannelNode> seen = new HashSet<>();
+        for (ChannelNode input : inputs) {
+            if (seen.add(input)) {
+                input.addDependent(channel);
+            }
+        }
+        core.channels.put(def.id(), channel);
+        staleAfter.put(def.id(), longestStale);
+    }
+
+    private void outputs() {
+        for (OutputDef def : config.outputs()) {
+            unique("output", def.id(), def.position());
+            core.outputs.put(def.id(), def);
+        }
+    }
+
+    private void interlocks() {
+        for (InterlockDef def : config.ruleSet().interlocks()) {
+            unique("interlock", def.id(), def.position());
+            for (OutputAction action : def.actions()) {
+                if (!core.outputs.containsKey(action.output())) {
+                    throw refuse(def.position(), "interlock " + def.id(), "unknown output '" + action.output() + "'"
+                            + suggest(action.output(), core.outputs.keySet()));
+                }
+            }
+            core.interlocks.put(def.id(), new InterlockRuntime(core, def));
+        }
+    }
+
+    private void rules() {
+        for (RuleDef rule : config.ruleSet().rules()) {
+            unique("rule", rule.id(), rule.position());
+            AlarmRuntime alarm = new AlarmRuntime(core, rule.id(), rule.alarm());
+            core.alarms.put(rule.id(), alarm);
+            RuleEvaluator evaluator = evaluator(rule, alarm);
+            alarm.evaluator = evaluator;
+            Set<String> seen = new HashSet<>();
+            for (String input : rule.inputs()) {
+                if (!seen.add(input)) {
+                    throw refuse(rule, "channel '" + input + "' is listed twice");
+                }
+                core.channels.get(input).addRule(evaluator);
+            }
+        }
+        for (RuleDef rule : config.ruleSet().rules()) {
+            AlarmRuntime alarm = core.alarms.get(rule.id());
+            AlarmOptions options = rule.alarm();
+            if (options.trips().isPresent()) {
+                InterlockRuntime interlock = core.interlocks.get(options.trips().get());
+                if (interlock == null) {
+                    throw refuse(rule, "trips unknown interlock '" + options.trips().get() + "'"
+                            + suggest(options.trips().get(), core.interlocks.keySet()));
+                }
+                alarm.trips = interlock;
+                interlock.causes.add(alarm);
+            }
+            List<AlarmRuntime> suppressors = new ArrayList<>();
+            for (String other : options.suppressWhile()) {
+                AlarmRuntime suppressor = core.alarms.get(other);
+                if (suppressor == null) {
+                    throw refuse(rule, "is suppressed while unknown alarm '" + other + "' is active"
+                            + suggest(other, core.alarms.keySet()));
+                }
+                if (suppressor == alarm) {
+                    throw refuse(rule, "cannot be suppressed by itself");
+                }
+                suppressors.add(suppressor);
+                suppressor.suppresses.add(alarm);
+            }
+            alarm.suppressors = suppressors.toArray(new AlarmRuntime[0]);
+        }
+    }
+
+    private RuleEvaluator evaluator(RuleDef rule, AlarmRuntime alarm) {
+        for (String input : rule.inputs()) {
+            if (!core.channels.containsKey(input)) {
+                throw refuse(rule, "unknown channel '" + input + "'" + suggest(input, allChannelIds()));
+            }
+        }
+        if (rule instanceof LimitRule) {
+            LimitRule limit = (LimitRule) rule;
+            Unit unit = core.channels.get(limit.channel()).unit;
+            return new LimitEvaluator(alarm, limit.direction(), level(rule, "setpoint", limit.setpoint(), unit),
+                    difference(rule, "deadband", limit.deadband(), unit), unit);
+        }
+        if (rule instanceof RateRule) {
+            RateRule rate = (RateRule) rule;
+            Unit unit = core.channels.get(rate.channel()).unit;
+            double change = difference(rule, "rate", rate.change(), unit);
+            double perSeconds = rate.per().toNanos() * 1e-9;
+            String perText = per(rate.per());
+            String rateUnit = rate.change().unit().symbol() + "/" + perText;
+            return new RateEvaluator(alarm, core, rate.direction(), change / perSeconds, rate.window().toNanos(), unit,
+                    rate.change().unit(), perSeconds, rateUnit,
+                    Texts.number(rate.change().value()) + " " + rateUnit);
+        }
+        if (rule instanceof StaleRule) {
+            StaleRule stale = (StaleRule) rule;
+            long timeout = stale.timeout().map(Duration::toNanos).orElse(staleAfter.get(stale.channel()));
+            if (timeout <= 0) {
+                throw refuse(rule, "the stale timeout must be positive, got " + Texts.nanos(timeout));
+            }
+            StaleEvaluator evaluator = new StaleEvaluator(alarm, core, stale.channel(), timeout);
+            staleRules.add(evaluator);
+            return evaluator;
+        }
+        if (rule instanceof VoteRule) {
+            VoteRule vote = (VoteRule) rule;
+            int n = vote.channels().size();
+            ChannelNode[] channels = new ChannelNode[n];
+            double[] setpoints = new double[n];
+            double[] deadbands = new double[n];
+            for (int i = 0; i < n; i++) {
+                channels[i] = core.channels.get(vote.channels().get(i));
+                setpoints[i] = level(rule, "setpoint", vote.setpoint(), channels[i].unit);
+                deadbands[i] = difference(rule, "deadband", vote.deadband(), channels[i].unit);
+            }
+            return new VoteEvaluator(alarm, channels, vote.required(), vote.direction(), setpoints, deadbands,
+                    vote.faultCountsAsTripped(), Texts.quantity(vote.setpoint().value(), vote.setpoint().unit()));
+        }
+        DeviationRule deviation = (DeviationRule) rule;
+        ChannelNode[] channels = new ChannelNode[deviation.channels().size()];
+        for (int i = 0; i < channels.length; i++) {
+            channels[i] = core.channels.get(deviation.channels().get(i));
+            if (!channels[i].unit.isCompatibleWith(channels[0].unit)) {
+                throw refuse(rule, "cannot compare " + channels[i].id + " in " + channels[i].unit + " with "
+                        + channels[0].id + " in " + channels[0].unit);
+            }
+        }
+        double tolerance = difference(rule, "tolerance", deviation.tolerance(), channels[0].unit);
+        if (!(tolerance > 0)) {
+            throw refuse(rule, "the tolerance must be positive, got " + deviation.tolerance());
+        }
+        return new DeviationEvaluator(alarm, channels, tolerance, ambientPa);
+    }
+
+    private void start() {
+        long now = core.now;
+        for (MeasuredChannel channel : core.measured.values()) {
+            channel.start(now);
+        }
+        for (StaleEvaluator stale : staleRules) {
+            stale.start(now);
+        }
+    }
+
+    /** A level (a setpoint) in the channel's unit: offsets apply, gauge/absolute through the ambient pressure. */
+    private double level(RuleDef rule, String what, Quantity quantity, Unit channelUnit) {
+        if (!Double.isFinite(quantity.value())) {
+            throw refuse(rule, "the " + what + " must be a finite number, got " + quantity);
+        }
+        if (!quantity.unit().isCompatibleWith(channelUnit)) {
+            throw refuse(rule, "the " + what + " " + quantity + " is " + quantity.unit().dimension().expected()
+                    + " but the channel is in " + channelUnit.symbol() + ", " + channelUnit.dimension().expected());
+        }
+        return quantity.in(channelUnit, ambientPa);
+    }
+
+    /** A difference (deadband, tolerance, rate) in the channel's unit: no offsets, no gauge/absolute shift. */
+    private double difference(RuleDef rule, String what, Quantity quantity, Unit channelUnit) {
+        if (!Double.isFinite(quantity.value()) || quantity.value() < 0) {
+            throw refuse(rule, "the " + what + " must be a non-negative finite number, got " + quantity);
+        }
+        if (quantity.value() == 0) {
+            return 0;
+        }
+        if (!quantity.unit().isCompatibleWith(channelUnit)) {
+            throw refuse(rule, "the " + what + " " + quantity + " is " + quantity.unit().dimension().expected()
+                    + " but the channel is in " + channelUnit.symbol() + ", " + channelUnit.dimension().expected());
+        }
+        return quantity.unit().differenceTo(channelUnit, quantity.value());
+    }
+
+    private static String per(Duration per) {
+        if (per.equals(Duration.ofHours(1))) {
+            return "h";
+        }
+        if (per.equals(Duration.ofMinutes(1))) {
+            return "min";
+        }
+        if (per.equals(Duration.ofSeconds(1))) {
+            return "s";
+        }
+        return Texts.duration(per);
+    }
+
+    private void unique(String kind, String id, SourcePosition position) {
+        String key = kind.equals("channel") ? "channel:" + id : kind + ":" + id;
+        SourcePosition first = defined.putIfAbsent(key, position);
+        if (first != null) {
+            throw refuse(position, kind + " " + id, "is defined twice (first at " + first + ")");
+        }
+    }
+
+    private List<String> allChannelIds() {
+        List<String> ids = new ArrayList<>(core.channels.keySet());
+        for (DerivedChannelDef def : config.derived()) {
+            if (!ids.contains(def.id())) {
+                ids.add(def.id());
+            }
+        }
+        return ids;
+    }
+
+    private static String suggest(String wrong, java.util.Collection<String> known) {
+        return Suggestion.didYouMean(wrong, known);
+    }
+
+    private static IllegalArgumentException refuse(RuleDef rule, String message) {
+        return refuse(rule.position(), "rule " + rule.id(), message);
+    }
+
+    private static IllegalArgumentException refuse(SourcePosition position, String what, String message) {
+        return new IllegalArgumentException(position + ": " + what + ": " + message);
+    }
+
+}
