@@ -81,7 +81,7 @@ final class MeasuredChannel extends ChannelNode {
         }
         if (latest == null || latest.quality() != Quality.STALE) {
             core.deliver(this, Reading.stale(id, unit, core.wall, "no reading for " + Texts.nanos(staleAfterNanos)
-                    + " (polled every " + Texts.duration(def.period()) + ")"));
+                    + ", polled every " + Texts.duration(def.period())));
         }
     }
 }

@@ -1,0 +1,91 @@
+package org.cryowarden.rules.engine;
+
+import static org.assertj.core.api.Assertions.assertThat;
+import static org.cryowarden.rules.engine.Site.alarm;
+import static org.cryowarden.rules.engine.Site.at;
+
+import java.time.Duration;
+import java.util.Optional;
+import org.cryowarden.rules.Quality;
+import org.cryowarden.rules.Reading;
+import org.cryowarden.rules.Unit;
+import org.cryowarden.rules.model.Priority;
+import org.cryowarden.rules.model.StaleRule;
+import org.cryowarden.rules.model.ValueRange;
+import org.junit.jupiter.api.Test;
+
+class StaleRuleTest {
+
+    @Test
+    void silentChannelTurnsStaleAndRaisesTheFaultAlarm() {
+        Site site = oxygenSite(Optional.empty());
+        site.read("o2_a", 20.9, Unit.PERCENT_VOLUME);
+
+        assertThat(site.tickFor(Duration.ofSeconds(4))).isEmpty();
+        assertThat(site.advance(Duration.ofSeconds(1))).containsExactly(
+                "18:00:05 o2_a_fault normal -> active-unacknowledged: o2_a STALE (no reading for 5s, polled every 1s)");
+        assertThat(site.engine().latest("o2_a").orElseThrow().quality()).isEqualTo(Quality.STALE);
+    }
+
+    @Test
+    void channelThatNeverReportsTurnsStaleAfterItsTimeoutFromStart() {
+        Site site = oxygenSite(Optional.empty());
+        site.engine();
+
+        assertThat(site.tickFor(Duration.ofSeconds(5))).containsExactly(
+                "18:00:05 o2_a_fault normal -> active-unacknowledged: o2_a STALE (no reading for 5s, polled every 1s)");
+    }
+
+    @Test
+    void noGoodReadingWithinTheRuleTimeoutRaisesTheFaultEvenWhileReadingsArrive() {
+        Site site = oxygenSite(Optional.of(Duration.ofSeconds(30)));
+        site.read("o2_a", 20.9, Unit.PERCENT_VOLUME);
+        for (int second = 1; second < 30; second++) {
+            site.advance(Duration.ofSeconds(1));
+            assertThat(site.read("o2_a", 20.9, Unit.PERCENT_VOLUME, Quality.UNCERTAIN, "cell end of life")).isEmpty();
+        }
+
+        assertThat(site.advance(Duration.ofSeconds(1))).containsExactly(
+                "18:00:30 o2_a_fault normal -> active-unacknowledged: no GOOD reading of o2_a for 30s");
+    }
+
+    @Test
+    void badReadingRaisesTheFaultAtOnceAndAGoodOneClearsIt() {
+        Site site = oxygenSite(Optional.of(Duration.ofSeconds(30)));
+        site.read("o2_a", 20.9, Unit.PERCENT_VOLUME);
+
+        assertThat(site.bad("o2_a", Unit.PERCENT_VOLUME, "no reply within 500ms")).containsExactly(
+                "18:00:00 o2_a_fault normal -> active-unacknowledged: o2_a BAD (no reply within 500ms)");
+        assertThat(site.read("o2_a", 20.9, Unit.PERCENT_VOLUME)).containsExactly(
+                "18:00:00 o2_a_fault active-unacknowledged -> returned-unacknowledged: o2_a GOOD again");
+    }
+
+    @Test
+    void readingOutsideTheValidRangeRaisesTheFaultWithTheRangeInTheCause() {
+        Site site = new Site().channel("o2_a", Unit.PERCENT_VOLUME, Duration.ofSeconds(1), Duration.ofSeconds(5),
+                        Optional.of(new ValueRange(0, 25)))
+                .rule(new StaleRule("o2_a_fault", "o2_a", Optional.empty(), alarm(Priority.HIGH, "Oxygen sensor A fault"),
+                        at("o2_a_fault")));
+
+        assertThat(site.read("o2_a", 99.9, Unit.PERCENT_VOLUME)).containsExactly(
+                "18:00:00 o2_a_fault normal -> active-unacknowledged: "
+                        + "o2_a 99.9 %vol BAD (value 99.9 %vol outside the valid range 0 to 25 %vol)");
+    }
+
+    @Test
+    void readingInAnIncompatibleUnitIsBad() {
+        Site site = oxygenSite(Optional.empty());
+
+        site.engine().onReading(Reading.good("o2_a", 4.2, Unit.KELVIN, site.clock.wallNow()));
+
+        Reading seen = site.engine().latest("o2_a").orElseThrow();
+        assertThat(seen.quality()).isEqualTo(Quality.BAD);
+        assertThat(seen.reason()).isEqualTo("reading in K cannot be converted to the channel's unit %vol");
+    }
+
+    private static Site oxygenSite(Optional<Duration> timeout) {
+        return new Site().channel("o2_a", Unit.PERCENT_VOLUME)
+                .rule(new StaleRule("o2_a_fault", "o2_a", timeout, alarm(Priority.HIGH, "Oxygen sensor A fault"),
+                        at("o2_a_fault")));
+    }
+}
