@@ -32,7 +32,7 @@ final class Site {
     static final Instant START = Instant.parse("2025-01-15T18:00:00Z");
     private static final DateTimeFormatter CLOCK = DateTimeFormatter.ofPattern("HH:mm:ss").withZone(ZoneOffset.UTC);
 
-    final VirtualTimeSource clock = new VirtualTimeSource(START);
+    final VirtualTimeSource clock;
     private final List<ChannelDef> channels = new ArrayList<>();
     private final List<DerivedChannelDef> derived = new ArrayList<>();
     private final List<OutputDef> outputs = new ArrayList<>();
@@ -41,6 +41,15 @@ final class Site {
     private double ambientPa = Quantity.STANDARD_ATMOSPHERE_PA;
     private DerivedFunctions functions = DerivedFunctions.builtIn();
     private Engine engine;
+
+    Site() {
+        this(START);
+    }
+
+    /** A site whose clock starts at {@code start}, e.g. the same lab after a restart. */
+    Site(Instant start) {
+        this.clock = new VirtualTimeSource(start);
+    }
 
     /** A channel polled every second, stale after 5 s. */
     Site channel(String id, Unit unit) {
