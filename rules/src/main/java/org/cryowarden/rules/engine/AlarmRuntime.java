@@ -35,8 +35,6 @@ final class AlarmRuntime {
     final List<AlarmRuntime> suppresses = new ArrayList<>();
     RuleEvaluator evaluator;
 
-    /** The rule's condition now. */
-    boolean raw;
     /** The condition after the on- and off-delays: the alarm is active. */
     boolean active;
     private Reading trigger;
@@ -70,7 +68,6 @@ final class AlarmRuntime {
 
     AlarmState state = AlarmState.NORMAL;
     Instant since;
-    Reading lastReading;
 
     AlarmRuntime(Core core, String id, AlarmOptions options) {
         this.core = core;
@@ -84,12 +81,13 @@ final class AlarmRuntime {
         this.since = core.wall;
     }
 
-    /** The rule's condition changed (or was re-stated); starts or cancels the delay that applies. */
-    void condition(boolean value, Reading reading, String cause) {
-        if (value == raw) {
-            return;
-        }
-        raw = value;
+    /** The rule's condition now, as its evaluator holds it. */
+    boolean raw() {
+        return evaluator.raw;
+    }
+
+    /** The rule's condition changed; starts or cancels the delay that applies. */
+    void conditionChanged(boolean value, Reading reading, String cause) {
         trigger = reading;
         rawCause = cause;
         if (value == active) {
@@ -105,6 +103,7 @@ final class AlarmRuntime {
     }
 
     private void delayExpired() {
+        boolean raw = evaluator.raw;
         String held = raw
                 ? ", held for the on-delay of " + Texts.nanos(onDelayNanos)
                 : ", clear for the off-delay of " + Texts.nanos(offDelayNanos);
@@ -295,8 +294,13 @@ final class AlarmRuntime {
         return Optional.of(new Shelving(shelvedBy, shelveReason, shelvedUntilWall, Duration.ofNanos(remaining)));
     }
 
+    private Optional<Reading> lastReading() {
+        ChannelNode node = evaluator.lastNode;
+        return node == null ? Optional.empty() : Optional.ofNullable(node.latest);
+    }
+
     AlarmStatus status() {
-        return new AlarmStatus(id, state, priority, message, since, active, Optional.ofNullable(lastReading),
+        return new AlarmStatus(id, state, priority, message, since, active, lastReading(),
                 Optional.ofNullable(acknowledgedBy), shelving());
     }
 
@@ -308,7 +312,7 @@ final class AlarmRuntime {
 
     /** Takes the facts back from a snapshot; the state is recomputed by {@link #settleAfterRestore()}. */
     void restore(EngineSnapshot.AlarmRecord record) {
-        raw = record.conditionActive();
+        evaluator.raw = record.conditionActive();
         active = record.conditionActive();
         rawCause = active ? "active before the restart" : "";
         unacknowledged = record.unacknowledged();
@@ -329,7 +333,7 @@ final class AlarmRuntime {
             shelvedUntilWall = shelving.until().isBefore(shelvedUntilWall) ? shelving.until() : shelvedUntilWall;
         }
         since = record.since();
-        if (active && evaluator != null) {
+        if (active) {
             evaluator.restoredActive();
         }
     }

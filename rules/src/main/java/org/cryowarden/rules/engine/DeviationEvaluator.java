@@ -30,7 +30,7 @@ final class DeviationEvaluator extends RuleEvaluator {
 
     @Override
     void onReading(ChannelNode node, Reading reading) {
-        alarm.lastReading = reading;
+        lastNode = node;
         int i = indexOf(node);
         if (reading.quality() == Quality.GOOD) {
             good[i] = true;
@@ -57,8 +57,8 @@ final class DeviationEvaluator extends RuleEvaluator {
         }
         double spread = values[highest] - values[lowest];
         boolean past = spread > tolerance;
-        if (past != alarm.raw) {
-            alarm.condition(past, reading, past
+        if (past != raw) {
+            change(past, reading, past
                     ? channels[highest].id + " and " + channels[lowest].id + " differ by " + Texts.quantity(spread, unit)
                             + ", more than the tolerance of " + Texts.quantity(tolerance, unit)
                     : "spread back to " + Texts.quantity(spread, unit) + ", within the tolerance of "

@@ -85,7 +85,7 @@ final class InterlockRuntime {
             return "interlock " + id + " is not tripped: there is nothing to reset";
         }
         for (AlarmRuntime cause : causes) {
-            if (cause.raw || cause.active) {
+            if (cause.raw() || cause.active) {
                 return "interlock " + id + " cannot be reset while its cause persists: alarm " + cause.id
                         + " is still active (" + cause.rawCause + "); clear the cause first, then reset";
             }

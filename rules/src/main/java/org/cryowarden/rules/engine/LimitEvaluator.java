@@ -27,19 +27,19 @@ final class LimitEvaluator extends RuleEvaluator {
 
     @Override
     void onReading(ChannelNode node, Reading reading) {
-        alarm.lastReading = reading;
+        lastNode = node;
         Quality quality = reading.quality();
         if (quality == Quality.BAD || quality == Quality.STALE) {
             return;
         }
         double value = reading.value();
-        if (!alarm.raw) {
+        if (!raw) {
             if (high ? value > setpoint : value < setpoint) {
-                alarm.condition(true, reading, Texts.reading(reading) + (high ? " above " : " below ")
+                change(true, reading, Texts.reading(reading) + (high ? " above " : " below ")
                         + Texts.quantity(setpoint, unit));
             }
         } else if (quality == Quality.GOOD && (high ? value <= setpoint - deadband : value >= setpoint + deadband)) {
-            alarm.condition(false, reading, Texts.reading(reading) + (high ? " back below " : " back above ")
+            change(false, reading, Texts.reading(reading) + (high ? " back below " : " back above ")
                     + Texts.quantity(setpoint, unit) + (deadband == 0 ? "" : " by the deadband of "
                     + Texts.quantity(deadband, unit)));
         }

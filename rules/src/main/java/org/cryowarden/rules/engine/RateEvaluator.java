@@ -1,6 +1,5 @@
 package org.cryowarden.rules.engine;
 
-import java.util.Arrays;
 import org.cryowarden.rules.Quality;
 import org.cryowarden.rules.Reading;
 import org.cryowarden.rules.Unit;
@@ -55,7 +54,7 @@ final class RateEvaluator extends RuleEvaluator {
 
     @Override
     void onReading(ChannelNode node, Reading reading) {
-        alarm.lastReading = reading;
+        lastNode = node;
         if (reading.quality() != Quality.GOOD) {
             return;
         }
@@ -68,9 +67,9 @@ final class RateEvaluator extends RuleEvaluator {
         double n = size;
         double slope = (n * sumXY - sumX * sumY) / (n * sumXX - sumX * sumX);
         boolean past = rising ? slope > perSecond : slope < -perSecond;
-        if (past != alarm.raw) {
+        if (past != raw) {
             double shown = channelUnit.differenceTo(changeUnit, slope) * perSeconds;
-            alarm.condition(past, reading, node.id + (rising ? " rising at " : " falling at ")
+            change(past, reading, node.id + (rising ? " rising at " : " falling at ")
                     + Texts.number(Math.abs(shown)) + " " + rateUnit
                     + (past ? ", faster than " : ", no faster than ") + thresholdText);
         }
@@ -110,7 +109,7 @@ final class RateEvaluator extends RuleEvaluator {
             sumY -= value;
             sumXX -= x * x;
             sumXY -= x * value;
-            head = (head + 1) % times.length;
+            head = (head + 1) & (times.length - 1);
             size--;
             evictionsSinceRecompute++;
         }
@@ -140,11 +139,6 @@ final class RateEvaluator extends RuleEvaluator {
     }
 
     private int index(int offset) {
-        return (head + offset) % times.length;
-    }
-
-    @Override
-    public String toString() {
-        return "rate " + alarm.id + " " + Arrays.toString(Arrays.copyOf(values, size));
+        return (head + offset) & (times.length - 1);
     }
 }

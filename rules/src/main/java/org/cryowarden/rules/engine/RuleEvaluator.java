@@ -9,9 +9,22 @@ import org.cryowarden.rules.Reading;
 abstract class RuleEvaluator {
 
     final AlarmRuntime alarm;
+    /**
+     * The condition now (with the rule's own hysteresis), kept here rather than in the alarm so that a reading
+     * which changes nothing touches only this object.
+     */
+    boolean raw;
+    /** The input channel of the latest evaluation, for the alarm list's value. */
+    ChannelNode lastNode;
 
     RuleEvaluator(AlarmRuntime alarm) {
         this.alarm = alarm;
+    }
+
+    /** Records a changed condition and hands it to the alarm's delays and lifecycle. */
+    final void change(boolean value, Reading reading, String cause) {
+        raw = value;
+        alarm.conditionChanged(value, reading, cause);
     }
 
     /** A new reading on {@code node}, one of this rule's inputs, already in that channel's unit. */

@@ -34,18 +34,18 @@ final class StaleEvaluator extends RuleEvaluator {
 
     @Override
     void onReading(ChannelNode node, Reading reading) {
-        alarm.lastReading = reading;
+        lastNode = node;
         Quality quality = reading.quality();
         if (quality == Quality.GOOD) {
             lastGood = core.now;
             if (!timer.queued) {
                 core.timers.schedule(timer, lastGood + timeoutNanos);
             }
-            if (alarm.raw) {
-                alarm.condition(false, reading, channel + " GOOD again");
+            if (raw) {
+                change(false, reading, channel + " GOOD again");
             }
-        } else if ((quality == Quality.BAD || quality == Quality.STALE) && !alarm.raw) {
-            alarm.condition(true, reading, Texts.reading(reading));
+        } else if ((quality == Quality.BAD || quality == Quality.STALE) && !raw) {
+            change(true, reading, Texts.reading(reading));
         }
     }
 
@@ -53,8 +53,8 @@ final class StaleEvaluator extends RuleEvaluator {
         long due = lastGood + timeoutNanos;
         if (due - core.now > 0) {
             core.timers.schedule(timer, due);
-        } else if (!alarm.raw) {
-            alarm.condition(true, null, "no GOOD reading of " + channel + " for " + Texts.nanos(timeoutNanos));
+        } else if (!raw) {
+            change(true, null, "no GOOD reading of " + channel + " for " + Texts.nanos(timeoutNanos));
         }
     }
 }

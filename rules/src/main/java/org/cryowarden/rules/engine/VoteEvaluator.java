@@ -2,7 +2,6 @@ package org.cryowarden.rules.engine;
 
 import org.cryowarden.rules.Quality;
 import org.cryowarden.rules.Reading;
-import org.cryowarden.rules.Unit;
 import org.cryowarden.rules.model.Direction;
 
 /**
@@ -42,7 +41,7 @@ final class VoteEvaluator extends RuleEvaluator {
 
     @Override
     void onReading(ChannelNode node, Reading reading) {
-        alarm.lastReading = reading;
+        lastNode = node;
         int i = indexOf(node);
         reported[i] = true;
         boolean was = tripped[i];
@@ -77,8 +76,8 @@ final class VoteEvaluator extends RuleEvaluator {
             }
             holdUntilAllReported = false;
         }
-        if (met != alarm.raw) {
-            alarm.condition(met, reading, describe(met));
+        if (met != raw) {
+            change(met, reading, describe(met));
         }
     }
 
@@ -121,9 +120,5 @@ final class VoteEvaluator extends RuleEvaluator {
             }
         }
         throw new IllegalStateException(node.id + " is not an input of vote " + alarm.id);
-    }
-
-    static String setpointText(double setpoint, Unit unit) {
-        return Texts.quantity(setpoint, unit);
     }
 }
