@@ -127,7 +127,12 @@ final class CrossFileValidator {
     }
 
     private void unitsAgree(Quantity quantity, String what, RuleDef rule, String channel, Unit unit, SourcePosition at) {
-        if (!quantity.unit().isCompatibleWith(unit)) {
+        if (quantity.unit() == Unit.ONE && unit != Unit.ONE) {
+            problems.add(at, "unit mismatch: " + what + " of rule '" + rule.id() + "' is " + Units.number(quantity.value())
+                    + " without a unit, but channel '" + channel + "' is in " + unit.symbol() + ", "
+                    + unit.dimension().expected() + ": write the unit, e.g. " + Units.number(quantity.value()) + " "
+                    + unit.symbol());
+        } else if (!quantity.unit().isCompatibleWith(unit)) {
             problems.add(at, "unit mismatch: " + what + " of rule '" + rule.id() + "' is " + quantity + ", "
                     + quantity.unit().dimension().expected() + ", but channel '" + channel + "' is in " + unit.symbol()
                     + ", " + unit.dimension().expected());

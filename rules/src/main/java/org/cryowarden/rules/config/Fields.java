@@ -10,6 +10,7 @@ import java.util.regex.Pattern;
 import org.cryowarden.rules.DurationSyntax;
 import org.cryowarden.rules.Quantity;
 import org.cryowarden.rules.SourcePosition;
+import org.cryowarden.rules.Unit;
 
 /**
  * Typed, positioned access to the keys of one mapping, as the loaders read them. Every failed access reports
@@ -148,6 +149,22 @@ final class Fields {
         Optional<ConfigNode.Scalar> scalar = scalar(key, required, "a quantity with its unit, e.g. 19.5 %vol");
         if (scalar.isEmpty()) {
             return Optional.empty();
+        }
+        return Fields.quantity(scalar.get(), "'" + key + "' in " + context, problems);
+    }
+
+    /**
+     * A quantity, or a bare number meaning a plain number (unit {@code 1}), for set points on channels without
+     * a unit (a key switch, a relay state). A bare number on a channel with a unit is reported by the checks
+     * across files, which know the channel.
+     */
+    Optional<Quantity> quantityOrPlain(String key, boolean required) {
+        Optional<ConfigNode.Scalar> scalar = scalar(key, required, "a quantity with its unit, e.g. 19.5 %vol");
+        if (scalar.isEmpty()) {
+            return Optional.empty();
+        }
+        if (Units.isBareNumber(scalar.get().text())) {
+            return Optional.of(Quantity.of(Double.parseDouble(scalar.get().text().strip()), Unit.ONE));
         }
         return Fields.quantity(scalar.get(), "'" + key + "' in " + context, problems);
     }

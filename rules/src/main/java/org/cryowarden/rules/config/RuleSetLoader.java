@@ -218,8 +218,8 @@ public final class RuleSetLoader {
                 SourcePosition at) {
             Optional<String> channel = limit.id("channel", true);
             Optional<Direction> direction = direction(limit, "above", "below");
-            Optional<Quantity> setpoint = direction.flatMap(d -> limit.quantity(d == Direction.HIGH ? "above" : "below",
-                    true));
+            Optional<Quantity> setpoint = direction.flatMap(d -> limit.quantityOrPlain(
+                    d == Direction.HIGH ? "above" : "below", true));
             Optional<Quantity> deadband = deadband(limit, setpoint);
             if (id.isEmpty() || alarm.isEmpty() || channel.isEmpty() || setpoint.isEmpty() || deadband.isEmpty()) {
                 return Optional.empty();
@@ -272,8 +272,8 @@ public final class RuleSetLoader {
             Optional<List<String>> channels = vote.ids("channels", true, "a list of channel ids");
             Optional<Integer> required = voting(vote, channels);
             Optional<Direction> direction = direction(vote, "above", "below");
-            Optional<Quantity> setpoint = direction.flatMap(d -> vote.quantity(d == Direction.HIGH ? "above" : "below",
-                    true));
+            Optional<Quantity> setpoint = direction.flatMap(d -> vote.quantityOrPlain(
+                    d == Direction.HIGH ? "above" : "below", true));
             Optional<Quantity> deadband = deadband(vote, setpoint);
             Optional<Boolean> faults = vote.bool("faults_count_as_tripped");
             if (id.isEmpty() || alarm.isEmpty() || channels.isEmpty() || required.isEmpty() || setpoint.isEmpty()
@@ -328,7 +328,7 @@ public final class RuleSetLoader {
             if (!fields.has("deadband")) {
                 return setpoint.map(s -> Quantity.of(0, s.unit()));
             }
-            Optional<Quantity> deadband = fields.quantity("deadband", false);
+            Optional<Quantity> deadband = fields.quantityOrPlain("deadband", false);
             if (deadband.isEmpty()) {
                 return Optional.empty();
             }
