@@ -199,7 +199,7 @@ final class CrossFileValidator {
         Map<String, List<Placed>> byChannel = new LinkedHashMap<>();
         for (RuleFile file : files) {
             for (RuleDef rule : file.rules()) {
-                if (rule instanceof LimitRule limit) {
+                if (rule instanceof LimitRule limit && limit.alarm() != RuleSetLoader.INCOMPLETE_ALARM) {
                     Unit unit = channelUnits.get(limit.channel());
                     if (unit != null && limit.setpoint().unit().isCompatibleWith(unit)) {
                         double value = limit.setpoint().in(unit, ambientPascal);

@@ -61,6 +61,9 @@ public final class RuleSetLoader {
         RULE_KEYS = List.copyOf(keys);
     }
 
+    /** Placeholder options of a rule whose own options had errors; such a rule never leaves the loader. */
+    static final AlarmOptions INCOMPLETE_ALARM = AlarmOptions.simple(Priority.LOW, "");
+
     private RuleSetLoader() {
     }
 
@@ -156,7 +159,9 @@ public final class RuleSetLoader {
                 problems.add(rule.position(), rule.context() + " needs exactly one of " + String.join(", ", TYPES)
                         + ", found none");
             }
-            Optional<AlarmOptions> alarm = alarm(rule);
+            // A rule whose alarm options are wrong is still built, with placeholder options, so that its channel
+            // references are checked in the same run; any problem keeps the rule set from being returned.
+            Optional<AlarmOptions> alarm = Optional.of(alarm(rule).orElse(INCOMPLETE_ALARM));
             if (types.size() != 1) {
                 return;
             }
