@@ -397,8 +397,8 @@ final class CalcCommand implements Runnable {
                 entry.put("fatality_factor", mode.fatalityFactor());
                 entry.put("rate_per_h", mode.ratePerHour());
                 modes.add(entry);
-                human.append(String.format(Locale.ROOT, "  %-60s O2 min %6.2f %%  F %.3g  P %.3g /h%n",
-                        mode.name(), mode.oxygenMinFraction() * 100, mode.fatalityFactor(), mode.ratePerHour()));
+                human.append(String.format(Locale.ROOT, "  O2 min %6.2f %%  F %-9.3g P %-9.3g /h  %s%n",
+                        mode.oxygenMinFraction() * 100, mode.fatalityFactor(), mode.ratePerHour(), mode.name()));
             }
             values.put("modes", modes);
             human.append("An estimate for review: it never replaces oxygen monitors, ventilation interlocks or local codes.");

@@ -18,7 +18,8 @@ import org.cryowarden.rules.config.YamlReader;
  * its rate per hour and either the oxygen fraction it leads to, a steady release of gas (rate, optional
  * duration, optional ventilation during the event) or an instantaneous spill of liquid. Oxygen minima come
  * from {@link OxygenDilution}; spilled liquid is expanded with {@link GasExpansion} at the room's air
- * conditions. Every problem in the file is reported at once with {@code FILE:LINE:COLUMN}.
+ * conditions. A room with a ventilation rate and no {@code fan} is taken as exhausted, the more conservative of
+ * the two fan solutions. Every problem in the file is reported at once with {@code FILE:LINE:COLUMN}.
  *
  * <pre>
  * room:
