@@ -39,7 +39,7 @@ class OdhAssessmentTest {
 
     @Test
     void fatalityRateIsTheSumOfRateTimesFatalityFactor() {
-        // FESHM 4240: phi = sum P_i F_i; rates here are the manual's generic ones, not yet checked against its current tables
+        // FESHM 4240: phi = sum P_i F_i (rates are the manual's generic ones, unchecked against its current tables)
         OdhAssessment assessment = OdhAssessment.of(List.of(
                 new FailureMode("dewar loss of vacuum", 1e-6, 0.05),
                 new FailureMode("relief valve opens early", 1e-5, 0.15),
