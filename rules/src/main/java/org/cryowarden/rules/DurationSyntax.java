@@ -12,6 +12,9 @@ public final class DurationSyntax {
 
     private static final Pattern PART = Pattern.compile("(\\d+(?:\\.\\d+)?)\\s*(ms|s|min|h|d)");
 
+    /** Longest duration accepted, 100 years of 365.25 days: beyond that a number is a typing error. */
+    private static final double MAX_NANOS = 100 * 365.25 * 86400e9;
+
     private DurationSyntax() {
     }
 
@@ -38,7 +41,11 @@ public final class DurationSyntax {
                         + "ms, s, min, h, d, e.g. 30s, 5min, 2h or 1h30min");
             }
             double amount = Double.parseDouble(matcher.group(1));
-            nanos += Math.round(amount * nanosPer(matcher.group(2)));
+            double partNanos = amount * nanosPer(matcher.group(2));
+            if (partNanos >= MAX_NANOS || nanos + partNanos >= MAX_NANOS) {
+                throw new IllegalArgumentException("'" + text + "' is too long a duration: at most 100 years");
+            }
+            nanos += Math.round(partNanos);
             position = matcher.end();
         }
         return Duration.ofNanos(nanos);

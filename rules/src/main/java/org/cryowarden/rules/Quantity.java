@@ -33,12 +33,16 @@ public record Quantity(double value, Unit unit) {
      */
     public static Quantity parse(String text) {
         Objects.requireNonNull(text, "text");
-        Matcher matcher = FORM.matcher(text);
+        // a typographic minus (U+2212) is what word processors put in front of "196 °C"
+        Matcher matcher = FORM.matcher(text.replace('\u2212', '-'));
         if (!matcher.matches()) {
             throw new IllegalArgumentException(
                     "'" + text + "' is not a quantity: expected a number followed by a unit, e.g. 101.325kPa or 4.2 K");
         }
         double number = Double.parseDouble(matcher.group(1));
+        if (!Double.isFinite(number)) {
+            throw new IllegalArgumentException("'" + text.strip() + "' is too large a number");
+        }
         String symbol = matcher.group(2);
         if (symbol == null) {
             throw new IllegalArgumentException("'" + text.strip() + "' has no unit: write the unit after the number, e.g. "
@@ -93,7 +97,7 @@ public record Quantity(double value, Unit unit) {
         }
         String best = null;
         int bestDistance = Integer.MAX_VALUE;
-        for (String candidate : Unit.allSymbols()) {
+        for (String candidate : Unit.symbolsInOrder()) {
             int distance = editDistance(symbol.toLowerCase(Locale.ROOT), candidate.toLowerCase(Locale.ROOT));
             if (distance < bestDistance) {
                 bestDistance = distance;

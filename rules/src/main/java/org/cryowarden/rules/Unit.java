@@ -134,6 +134,16 @@ public enum Unit {
         return java.util.Collections.unmodifiableSet(BY_SYMBOL.keySet());
     }
 
+    /** Every symbol then its aliases, unit by unit in declaration order, so that suggestions are deterministic. */
+    static List<String> symbolsInOrder() {
+        List<String> symbols = new java.util.ArrayList<>();
+        for (Unit unit : values()) {
+            symbols.add(unit.symbol);
+            symbols.addAll(unit.aliases);
+        }
+        return symbols;
+    }
+
     /** This value in the SI base of the dimension (K, Pa, m3, m3/s, ...). Gauge pressures stay gauge. */
     public double toBase(double value) {
         return value * scale + offset;
@@ -161,6 +171,10 @@ public enum Unit {
      */
     public double convert(double value, Unit target, double ambientPascal) {
         requireSameDimension(target);
+        if (target == this) {
+            // exact: a trip through the SI base would turn 850 °C into 850.0000000000001 °C
+            return value;
+        }
         double base = toBase(value);
         PressureReference from = pressureReference();
         PressureReference to = target.pressureReference();
@@ -188,9 +202,14 @@ public enum Unit {
     /** Case-insensitive lookup used only for suggestions ("MPA" -> "MPa"). */
     static Optional<Unit> byLooseSymbol(String text) {
         String wanted = text.strip().toLowerCase(Locale.ROOT);
-        for (Map.Entry<String, Unit> entry : BY_SYMBOL.entrySet()) {
-            if (entry.getKey().toLowerCase(Locale.ROOT).equals(wanted)) {
-                return Optional.of(entry.getValue());
+        for (Unit unit : values()) {
+            if (unit.symbol.toLowerCase(Locale.ROOT).equals(wanted)) {
+                return Optional.of(unit);
+            }
+            for (String alias : unit.aliases) {
+                if (alias.toLowerCase(Locale.ROOT).equals(wanted)) {
+                    return Optional.of(unit);
+                }
             }
         }
         return Optional.empty();

@@ -77,9 +77,9 @@ public final class DerivedFunctions {
     }
 
     private static final DerivedFunctions BUILT_IN = new DerivedFunctions(Map.of())
-            .with(Entry.sameUnit("min", "the lowest of the inputs", 1, Integer.MAX_VALUE, DerivedFunctions::min))
-            .with(Entry.sameUnit("max", "the highest of the inputs", 1, Integer.MAX_VALUE, DerivedFunctions::max))
-            .with(Entry.sameUnit("mean", "the arithmetic mean of the inputs", 1, Integer.MAX_VALUE, DerivedFunctions::mean))
+            .with(Entry.sameUnit("min", "the lowest of the inputs", 2, Integer.MAX_VALUE, DerivedFunctions::min))
+            .with(Entry.sameUnit("max", "the highest of the inputs", 2, Integer.MAX_VALUE, DerivedFunctions::max))
+            .with(Entry.sameUnit("mean", "the arithmetic mean of the inputs", 2, Integer.MAX_VALUE, DerivedFunctions::mean))
             .with(Entry.sameUnit("difference", "the first input minus the second", 2, 2, (in, p) -> in[0] - in[1]));
 
     private final Map<String, Entry> entries;

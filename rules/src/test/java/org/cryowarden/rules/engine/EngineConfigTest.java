@@ -124,6 +124,15 @@ class EngineConfigTest {
     }
 
     @Test
+    void meanOfASingleChannelIsRefused() {
+        Site site = new Site().channel("t_a", Unit.KELVIN)
+                .derived(new DerivedChannelDef("t_mean", "mean", List.of("t_a"), Unit.KELVIN, Map.of(), "", RULE_AT));
+
+        assertThatThrownBy(site::engine).hasMessage(
+                "hall-rules.yaml:12:5: derived channel t_mean: mean takes at least 2 inputs, got 1");
+    }
+
+    @Test
     void deviationToleranceOfAnotherDimensionIsRefused() {
         Site site = new Site().channel("t_a", Unit.KELVIN).channel("t_b", Unit.KELVIN)
                 .rule(new DeviationRule("t_disagree", List.of("t_a", "t_b"), q("2 %"), alarm(Priority.LOW, "x"), RULE_AT));

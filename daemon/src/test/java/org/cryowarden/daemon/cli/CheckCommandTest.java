@@ -1,0 +1,81 @@
+package org.cryowarden.daemon.cli;
+
+import static org.assertj.core.api.Assertions.assertThat;
+
+import java.io.IOException;
+import java.io.PrintWriter;
+import java.io.StringWriter;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+import picocli.CommandLine;
+
+class CheckCommandTest {
+
+    private static final String SITE = "../config-examples/harbour-hall-site.yaml";
+    private static final String RULES = "../config-examples/harbour-hall-rules.yaml";
+
+    @TempDir
+    Path folder;
+
+    private final StringWriter out = new StringWriter();
+    private final StringWriter err = new StringWriter();
+
+    @Test
+    void validExampleExitsZeroWithAOneLineSummary() {
+        int exit = run("check", "--site", SITE, "--rules", RULES);
+
+        assertThat(exit).isEqualTo(0);
+        assertThat(out.toString()).isEqualTo("valid: site 'Harbour Hall low-temperature lab': 14 channels "
+                + "(12 measured, 2 derived), 2 outputs, 20 rules, 1 interlock from 1 rule file; 3 buses, "
+                + "5 instruments" + System.lineSeparator());
+        assertThat(err.toString()).isEmpty();
+    }
+
+    @Test
+    void invalidFilesExitTwoWithEveryErrorOnStderr() throws IOException {
+        Path rules = folder.resolve("night-rules.yaml");
+        Files.writeString(rules, "rules:\n"
+                + "  - id: o2-low\n"
+                + "    limit: {channel: o2-magnet-hall-est, below: 19.5 %vol}\n"
+                + "    priority: critical\n"
+                + "    message: Oxygen low\n"
+                + "    on_delay: soon\n");
+
+        int exit = run("check", "--site", SITE, "--rules", rules.toString());
+
+        assertThat(exit).isEqualTo(2);
+        assertThat(out.toString()).isEmpty();
+        assertThat(err.toString().lines()).containsExactly(
+                rules + ":3:22: unknown channel 'o2-magnet-hall-est' in rule 'o2-low': no such channel in " + SITE
+                        + "; did you mean 'o2-magnet-hall-east'?",
+                rules + ":6:15: 'on_delay' in rule 'o2-low': 'soon' is not a duration: expected a number and one of "
+                        + "ms, s, min, h, d, e.g. 30s, 5min, 2h or 1h30min",
+                "2 errors found; nothing was started");
+    }
+
+    @Test
+    void missingFileExitsTwoWithAClearMessage() {
+        Path absent = folder.resolve("absent-site.yaml");
+
+        int exit = run("check", "--site", absent.toString());
+
+        assertThat(exit).isEqualTo(2);
+        assertThat(err.toString().lines()).containsExactly(absent + ": file not found",
+                "1 error found; nothing was started");
+    }
+
+    @Test
+    void missingSiteOptionIsBadInput() {
+        assertThat(run("check")).isEqualTo(2);
+        assertThat(err.toString()).startsWith("Missing required option: '--site=FILE'");
+    }
+
+    private int run(String... args) {
+        CommandLine line = Main.commandLine();
+        line.setOut(new PrintWriter(out, true));
+        line.setErr(new PrintWriter(err, true));
+        return line.execute(args);
+    }
+}
