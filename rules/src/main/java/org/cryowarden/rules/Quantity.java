@@ -1,6 +1,5 @@
 package org.cryowarden.rules;
 
-import java.util.Locale;
 import java.util.Objects;
 import java.util.Optional;
 import java.util.regex.Matcher;
@@ -95,35 +94,7 @@ public record Quantity(double value, Unit unit) {
         if (loose.isPresent()) {
             return ": did you mean '" + loose.get().symbol() + "'?";
         }
-        String best = null;
-        int bestDistance = Integer.MAX_VALUE;
-        for (String candidate : Unit.symbolsInOrder()) {
-            int distance = editDistance(symbol.toLowerCase(Locale.ROOT), candidate.toLowerCase(Locale.ROOT));
-            if (distance < bestDistance) {
-                bestDistance = distance;
-                best = candidate;
-            }
-        }
-        return best != null && bestDistance <= 2 ? ": did you mean '" + best + "'?" : "";
-    }
-
-    private static int editDistance(String a, String b) {
-        int[] previous = new int[b.length() + 1];
-        int[] current = new int[b.length() + 1];
-        for (int j = 0; j <= b.length(); j++) {
-            previous[j] = j;
-        }
-        for (int i = 1; i <= a.length(); i++) {
-            current[0] = i;
-            for (int j = 1; j <= b.length(); j++) {
-                int substitution = previous[j - 1] + (a.charAt(i - 1) == b.charAt(j - 1) ? 0 : 1);
-                current[j] = Math.min(substitution, Math.min(previous[j] + 1, current[j - 1] + 1));
-            }
-            int[] swap = previous;
-            previous = current;
-            current = swap;
-        }
-        return previous[b.length()];
+        return NameMatch.closest(symbol, Unit.symbolsInOrder()).map(best -> ": did you mean '" + best + "'?").orElse("");
     }
 
     @Override

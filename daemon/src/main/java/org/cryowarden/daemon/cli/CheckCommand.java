@@ -10,6 +10,9 @@ import org.cryowarden.rules.ConfigProblem;
 import org.cryowarden.rules.config.Configuration;
 import org.cryowarden.rules.config.ConfigurationLoader;
 import org.cryowarden.rules.config.DriverSettingsValidator;
+import org.cryowarden.rules.TimeSource;
+import org.cryowarden.rules.engine.Engine;
+import org.cryowarden.rules.engine.EngineConfig;
 import picocli.CommandLine;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Option;
@@ -65,6 +68,16 @@ final class CheckCommand implements Callable<Integer> {
             }
             int count = e.problems().size();
             err.println(count + (count == 1 ? " error" : " errors") + " found; nothing was started");
+            err.flush();
+            return INVALID;
+        }
+        try {
+            // The loader should already refuse whatever the engine cannot wire; building it here makes sure that a
+            // file `check` accepts is one `run` starts with.
+            new Engine(EngineConfig.of(configuration.site(), configuration.rules()), TimeSource.system());
+        } catch (IllegalArgumentException refused) {
+            err.println(refused.getMessage());
+            err.println("1 error found; nothing was started");
             err.flush();
             return INVALID;
         }

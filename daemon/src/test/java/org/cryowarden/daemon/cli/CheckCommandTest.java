@@ -27,8 +27,8 @@ class CheckCommandTest {
         int exit = run("check", "--site", SITE, "--rules", RULES);
 
         assertThat(exit).isEqualTo(0);
-        assertThat(out.toString()).isEqualTo("valid: site 'Harbour Hall low-temperature lab': 14 channels "
-                + "(12 measured, 2 derived), 2 outputs, 20 rules, 1 interlock from 1 rule file; 3 buses, "
+        assertThat(out.toString()).isEqualTo("valid: site 'Harbour Hall low-temperature lab': 17 channels "
+                + "(12 measured, 5 derived), 2 outputs, 20 rules, 1 interlock from 1 rule file; 3 buses, "
                 + "5 instruments" + System.lineSeparator());
         assertThat(err.toString()).isEmpty();
     }

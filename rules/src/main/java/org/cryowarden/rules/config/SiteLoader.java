@@ -14,6 +14,7 @@ import org.cryowarden.rules.PressureReference;
 import org.cryowarden.rules.Quantity;
 import org.cryowarden.rules.SourcePosition;
 import org.cryowarden.rules.Unit;
+import org.cryowarden.rules.engine.DerivedFunctions;
 import org.cryowarden.rules.model.BusDef;
 import org.cryowarden.rules.model.ChannelDef;
 import org.cryowarden.rules.model.DerivedChannelDef;
@@ -91,6 +92,9 @@ public final class SiteLoader {
     }
 
     /** The state of reading one file. */
+    /** The engine's catalogue: the loader refuses what the engine could not bind, with positions. */
+    private static final DerivedFunctions FUNCTIONS = DerivedFunctions.builtIn();
+
     private static final class Reader {
         private final Problems problems;
         private final SourceMap sources = new SourceMap();
@@ -335,9 +339,9 @@ public final class SiteLoader {
                 unique(signalIds, value, derivedChannel.valuePosition("id"), "channel");
                 channelIds.putIfAbsent(value, derivedChannel.valuePosition("id"));
             });
-            Optional<DerivedFunctions.Signature> function = derivedChannel
-                    .word("function", true, DerivedFunctions.names(), "function")
-                    .flatMap(DerivedFunctions::byName);
+            Optional<DerivedFunctions.Entry> function = derivedChannel
+                    .word("function", true, List.copyOf(FUNCTIONS.names()), "function")
+                    .flatMap(FUNCTIONS::find);
             Optional<List<String>> inputs = derivedChannel.ids("inputs", true, "a list of channel ids");
             Optional<Unit> unit = unit(derivedChannel, "unit");
             String description = derivedChannel.text("description", false).orElse("");
@@ -360,7 +364,7 @@ public final class SiteLoader {
                 }
             }
             if (function.isPresent() && inputs.isPresent()) {
-                DerivedFunctions.Signature signature = function.get();
+                DerivedFunctions.Entry signature = function.get();
                 int count = inputs.get().size();
                 if (count < signature.minInputs() || count > signature.maxInputs()) {
                     String wanted = signature.minInputs() == signature.maxInputs()
@@ -371,6 +375,17 @@ public final class SiteLoader {
                     inputs = Optional.empty();
                 }
             }
+            if (function.isPresent() && parametersOk) {
+                parametersOk = checkParameters(function.get(), parameters, parameterNode, derivedChannel);
+            }
+            if (function.isPresent() && unit.isPresent() && function.get().outputUnit().isPresent()
+                    && !function.get().outputUnit().get().isCompatibleWith(unit.get())) {
+                Unit result = function.get().outputUnit().get();
+                problems.add(derivedChannel.valuePosition("unit"), "function '" + function.get().name() + "' of "
+                        + derivedChannel.context() + " gives " + result.dimension().expected() + ", found unit "
+                        + unit.get().symbol() + " (" + unit.get().dimension().expected() + ")");
+                unit = Optional.empty();
+            }
             if (id.isEmpty() || function.isEmpty() || inputs.isEmpty() || unit.isEmpty() || !parametersOk) {
                 return;
             }
@@ -378,6 +393,41 @@ public final class SiteLoader {
                     parameters, description, derivedChannel.position());
             derived.add(def);
             sources.putAll(def, derivedChannel.positions());
+        }
+
+        /** Every parameter the function needs, in a unit of the right kind, and no other. */
+        private boolean checkParameters(DerivedFunctions.Entry function, Map<String, Quantity> given,
+                Optional<ConfigNode.Mapping> node, Fields owner) {
+            boolean ok = true;
+            List<String> known = new ArrayList<>();
+            for (DerivedFunctions.Parameter parameter : function.parameters()) {
+                known.add(parameter.name());
+                Quantity value = given.get(parameter.name());
+                if (value == null) {
+                    problems.add(node.map(ConfigNode::position).orElse(owner.position()), "function '"
+                            + function.name() + "' of " + owner.context() + " needs the parameter '" + parameter.name()
+                            + "' (" + parameter.unit().dimension().expected() + ")");
+                    ok = false;
+                } else if (!value.unit().isCompatibleWith(parameter.unit())) {
+                    SourcePosition at = node.flatMap(n -> n.get(parameter.name())).map(ConfigNode::position)
+                            .orElse(owner.position());
+                    problems.add(at, "parameter '" + parameter.name() + "' of " + owner.context() + " must be "
+                            + parameter.unit().dimension().expected() + ", found " + value);
+                    ok = false;
+                }
+            }
+            if (node.isPresent()) {
+                for (ConfigNode.Entry entry : node.get().entries()) {
+                    if (!known.contains(entry.key())) {
+                        String hint = known.isEmpty() ? ": it takes no parameters"
+                                : Suggestions.didYouMean(entry.key(), known);
+                        problems.add(entry.keyPosition(), "function '" + function.name() + "' of " + owner.context()
+                                + " has no parameter '" + entry.key() + "'" + hint);
+                        ok = false;
+                    }
+                }
+            }
+            return ok;
         }
 
         /** Derived inputs name channels of this same file: check them here, with units and cycles. */
@@ -389,7 +439,7 @@ public final class SiteLoader {
             for (DerivedChannelDef other : derived) {
                 units.put(other.id(), other.unit());
             }
-            DerivedFunctions.Signature signature = DerivedFunctions.byName(def.function()).orElseThrow();
+            DerivedFunctions.Entry signature = FUNCTIONS.find(def.function()).orElseThrow();
             for (int i = 0; i < def.inputs().size(); i++) {
                 String input = def.inputs().get(i);
                 SourcePosition at = sources.get(def, "inputs[" + i + "]", def.position());
@@ -400,7 +450,14 @@ public final class SiteLoader {
                             : ": no such channel in the site" + Suggestions.didYouMean(input, channelIds.keySet());
                     problems.add(at, "unknown channel '" + input + "' in the inputs of derived channel '" + def.id()
                             + "'" + hint);
-                } else if (signature.sameDimension() && units.containsKey(input)
+                } else if (signature.inputUnits().isPresent() && units.containsKey(input)
+                        && !units.get(input).isCompatibleWith(signature.inputUnits().get().get(i))) {
+                    Unit inputUnit = units.get(input);
+                    Unit wanted = signature.inputUnits().get().get(i);
+                    problems.add(at, "unit mismatch: input '" + input + "' is in " + inputUnit.symbol() + ", "
+                            + inputUnit.dimension().expected() + ", but function '" + def.function()
+                            + "' needs " + wanted.dimension().expected() + " as input " + (i + 1));
+                } else if (signature.inputUnits().isEmpty() && units.containsKey(input)
                         && !units.get(input).isCompatibleWith(def.unit())) {
                     Unit inputUnit = units.get(input);
                     problems.add(at, "unit mismatch: input '" + input + "' is in " + inputUnit.symbol() + ", "

@@ -34,6 +34,9 @@ public final class DerivedFunctions {
      * @param inputUnits the unit each input is converted into before the call; empty for same-unit functions,
      *                   whose inputs are all converted into the derived channel's unit
      * @param outputUnit the unit of the result, converted into the channel's unit; empty for same-unit functions
+     * @param aggregate  whether the function still means something over the usable inputs alone (min, max,
+     *                   mean): with some inputs BAD or STALE it is computed over the others and the result is
+     *                   UNCERTAIN, so one dead oxygen sensor cannot hide a low reading on the other two
      */
     public record Entry(
             String name,
@@ -43,6 +46,7 @@ public final class DerivedFunctions {
             Optional<List<Unit>> inputUnits,
             Optional<Unit> outputUnit,
             List<Parameter> parameters,
+            boolean aggregate,
             DerivedFunction function) {
 
         public Entry {
@@ -65,22 +69,32 @@ public final class DerivedFunctions {
 
         /** A function whose inputs and result are all in the derived channel's unit. */
         public static Entry sameUnit(String name, String description, int minInputs, int maxInputs, DerivedFunction function) {
-            return new Entry(name, description, minInputs, maxInputs, Optional.empty(), Optional.empty(), List.of(), function);
+            return new Entry(name, description, minInputs, maxInputs, Optional.empty(), Optional.empty(), List.of(),
+                    false, function);
+        }
+
+        /**
+         * A same-unit function that is computed over the usable inputs when some are BAD or STALE (see
+         * {@link #aggregate()}).
+         */
+        public static Entry aggregate(String name, String description, int minInputs, DerivedFunction function) {
+            return new Entry(name, description, minInputs, Integer.MAX_VALUE, Optional.empty(), Optional.empty(),
+                    List.of(), true, function);
         }
 
         /** A function with stated units for each input, its parameters and its result (physics functions). */
         public static Entry fixedUnits(String name, String description, List<Unit> inputUnits, Unit outputUnit,
                 List<Parameter> parameters, DerivedFunction function) {
             return new Entry(name, description, inputUnits.size(), inputUnits.size(), Optional.of(inputUnits),
-                    Optional.of(outputUnit), parameters, function);
+                    Optional.of(outputUnit), parameters, false, function);
         }
     }
 
-    private static final DerivedFunctions BUILT_IN = new DerivedFunctions(Map.of())
-            .with(Entry.sameUnit("min", "the lowest of the inputs", 2, Integer.MAX_VALUE, DerivedFunctions::min))
-            .with(Entry.sameUnit("max", "the highest of the inputs", 2, Integer.MAX_VALUE, DerivedFunctions::max))
-            .with(Entry.sameUnit("mean", "the arithmetic mean of the inputs", 2, Integer.MAX_VALUE, DerivedFunctions::mean))
-            .with(Entry.sameUnit("difference", "the first input minus the second", 2, 2, (in, p) -> in[0] - in[1]));
+    private static final DerivedFunctions BUILT_IN = PhysicsFunctions.register(new DerivedFunctions(Map.of())
+            .with(Entry.aggregate("min", "the lowest of the usable inputs", 2, DerivedFunctions::min))
+            .with(Entry.aggregate("max", "the highest of the usable inputs", 2, DerivedFunctions::max))
+            .with(Entry.aggregate("mean", "the arithmetic mean of the usable inputs", 2, DerivedFunctions::mean))
+            .with(Entry.sameUnit("difference", "the first input minus the second", 2, 2, (in, p) -> in[0] - in[1])));
 
     private final Map<String, Entry> entries;
 
@@ -164,7 +178,7 @@ public final class DerivedFunctions {
             }
         }
         return new BoundFunction(entry.function(), inputUnits.toArray(new Unit[0]), wanted.toArray(new Unit[0]),
-                result, def.unit(), parameters, ambientPa);
+                result, def.unit(), parameters, ambientPa, entry.aggregate());
     }
 
     private static String arity(Entry entry) {

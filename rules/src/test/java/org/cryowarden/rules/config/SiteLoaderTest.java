@@ -85,7 +85,9 @@ class SiteLoaderTest {
                 BROKEN + ":28:17: duplicate channel id 'o2-a': already used at " + BROKEN + ":12:17",
                 BROKEN + ":33:19: 'channels' in instrument 'module-2' must be a list of channels, found 'o2-a'",
                 BROKEN + ":35:31: unknown function 'minimum' in derived channel 'o2-lowest': expected one of "
-                        + "difference, max, mean, min",
+                        + "min, max, mean, difference, he4_saturation_temperature, prt_temperature, level_probe_height, "
+                        + "probe_percent_height, litres_flat_bottom, litres_hemispherical_bottom, litres_asme_fd_bottom, "
+                        + "litres_torispherical_bottom, oxygen_partial_pressure, boiloff_helium, boiloff_nitrogen",
                 BROKEN + ":36:58: unit mismatch: input 'o2-a' is in %vol, a gas concentration (%vol, ppm), but "
                         + "derived channel 'plate-mix' is in K, a temperature (K, mK, °C); function 'mean' needs "
                         + "inputs of the result's kind",
@@ -114,6 +116,26 @@ class SiteLoaderTest {
             return;
         }
         throw new AssertionError("the driver validator's problem was not reported");
+    }
+
+    @Test
+    void physicsFunctionsOfDerivedChannelsAreCheckedForInputsParametersAndResult() {
+        String file = "src/test/resources/config/derived-physics-site.yaml";
+        assertThat(problems(file)).containsExactly(
+                file + ":23:14: unit mismatch: input 'shield-r' is in ohm, a resistance (ohm, kohm), but function "
+                        + "'he4_saturation_temperature' needs a pressure (Pa, kPa, MPa, mbar, bar(a), bar(g), psi, "
+                        + "torr, atm) as input 1",
+                file + ":25:5: function 'prt_temperature' of derived channel 'shield-temperature' needs the "
+                        + "parameter 'r0' (a resistance (ohm, kohm))",
+                file + ":33:17: function 'litres_flat_bottom' of derived channel 'dewar-litres-2' needs the parameter "
+                        + "'straight_length' (a length (mm, cm, m))",
+                file + ":33:28: parameter 'diameter' of derived channel 'dewar-litres-2' must be a length (mm, cm, m), "
+                        + "found 5 K",
+                file + ":33:33: function 'litres_flat_bottom' of derived channel 'dewar-litres-2' has no parameter "
+                        + "'straight_lenght'; did you mean 'straight_length'?",
+                file + ":37:11: function 'he4_saturation_temperature' of derived channel 'bath-temperature-2' gives a "
+                        + "temperature (K, mK, °C), found unit kPa (a pressure (Pa, kPa, MPa, mbar, bar(a), bar(g), "
+                        + "psi, torr, atm))");
     }
 
     private static List<String> problems(String file) {

@@ -57,12 +57,58 @@ class DerivedChannelTest {
         Reading uncertain = site.engine().latest("o2_mean").orElseThrow();
         assertThat(uncertain.quality()).isEqualTo(Quality.UNCERTAIN);
         assertThat(uncertain.reason()).isEqualTo("from o2_b 20.8 %vol UNCERTAIN (cell end of life)");
+    }
 
+    @Test
+    void aggregateOverSensorsWithOneDeadIsComputedFromTheOthersAsUncertain() {
+        Site site = oxygenTrio().derived("o2_mean", "mean", Unit.PERCENT_VOLUME, "o2_a", "o2_b", "o2_c");
+        site.read("o2_a", 20.9, Unit.PERCENT_VOLUME);
+        site.read("o2_b", 20.7, Unit.PERCENT_VOLUME);
         site.bad("o2_c", Unit.PERCENT_VOLUME, "no reply");
-        Reading bad = site.engine().latest("o2_mean").orElseThrow();
+
+        Reading partial = site.engine().latest("o2_mean").orElseThrow();
+        assertThat(partial.quality()).isEqualTo(Quality.UNCERTAIN);
+        assertThat(partial.value()).isCloseTo(20.8, org.assertj.core.data.Offset.offset(1e-9));
+        assertThat(partial.reason()).isEqualTo("over 2 of 3 inputs; from o2_c BAD (no reply)");
+    }
+
+    @Test
+    void lowestOxygenStillAlarmsWhenOneOfTheThreeSensorsIsDead() {
+        // 19.5 %vol: oxygen deficient below it (29 CFR 1910.146(b)). A dead sensor must not blind the others.
+        Site site = oxygenTrio().derived("o2_min", "min", Unit.PERCENT_VOLUME, "o2_a", "o2_b", "o2_c")
+                .rule(new LimitRule("o2_min_low", "o2_min", Direction.LOW, q("19.5 %vol"), q("0 %vol"),
+                        alarm(Priority.HIGH, "Oxygen low somewhere in the hall"), at("o2_min_low")));
+        site.read("o2_a", 20.9, Unit.PERCENT_VOLUME);
+        site.read("o2_b", 20.9, Unit.PERCENT_VOLUME);
+        site.bad("o2_c", Unit.PERCENT_VOLUME, "wire break");
+
+        assertThat(site.read("o2_b", 18.9, Unit.PERCENT_VOLUME)).hasSize(1)
+                .allSatisfy(line -> assertThat(line).contains("o2_min_low normal -> active-unacknowledged"));
+    }
+
+    @Test
+    void aggregateWithEveryInputDeadIsBad() {
+        Site site = new Site().channel("p_a", Unit.KILOPASCAL).channel("p_b", Unit.KILOPASCAL)
+                .derived("p_max", "max", Unit.KILOPASCAL, "p_a", "p_b");
+        site.bad("p_a", Unit.KILOPASCAL, "no reply");
+        site.bad("p_b", Unit.KILOPASCAL, "bad CRC");
+
+        Reading bad = site.engine().latest("p_max").orElseThrow();
         assertThat(bad.quality()).isEqualTo(Quality.BAD);
         assertThat(bad.value()).isNaN();
-        assertThat(bad.reason()).isEqualTo("from o2_c BAD (no reply)");
+    }
+
+    @Test
+    void differenceWithADeadInputIsBadWithTheInputsReason() {
+        Site site = new Site().channel("t_top", Unit.KELVIN).channel("t_bottom", Unit.KELVIN)
+                .derived("t_gradient", "difference", Unit.KELVIN, "t_top", "t_bottom");
+        site.read("t_top", 80.0, Unit.KELVIN);
+        site.bad("t_bottom", Unit.KELVIN, "no reply");
+
+        Reading bad = site.engine().latest("t_gradient").orElseThrow();
+        assertThat(bad.quality()).isEqualTo(Quality.BAD);
+        assertThat(bad.value()).isNaN();
+        assertThat(bad.reason()).isEqualTo("from t_bottom BAD (no reply)");
     }
 
     @Test
@@ -101,7 +147,10 @@ class DerivedChannelTest {
 
     @Test
     void builtInCatalogueNamesItsFunctions() {
-        assertThat(DerivedFunctions.builtIn().names()).containsExactly("min", "max", "mean", "difference");
+        assertThat(DerivedFunctions.builtIn().names()).containsExactly("min", "max", "mean", "difference",
+                "he4_saturation_temperature", "prt_temperature", "level_probe_height", "probe_percent_height",
+                "litres_flat_bottom", "litres_hemispherical_bottom", "litres_asme_fd_bottom",
+                "litres_torispherical_bottom", "oxygen_partial_pressure", "boiloff_helium", "boiloff_nitrogen");
         assertThatThrownBy(() -> DerivedFunctions.builtIn().with(
                 DerivedFunctions.Entry.sameUnit("mean", "again", 1, 2, (in, p) -> in[0])))
                 .hasMessage("a derived function named mean already exists");

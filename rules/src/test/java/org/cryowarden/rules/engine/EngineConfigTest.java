@@ -101,7 +101,10 @@ class EngineConfigTest {
                 .derived(new DerivedChannelDef("t_mean", "maen", List.of("t_a", "t_b"), Unit.KELVIN, Map.of(), "", RULE_AT));
 
         assertThatThrownBy(site::engine).hasMessage("hall-rules.yaml:12:5: derived channel t_mean: unknown function "
-                + "'maen': did you mean 'mean'? (built in: min, max, mean, difference)");
+                + "'maen': did you mean 'mean'? (built in: min, max, mean, difference, he4_saturation_temperature, "
+                        + "prt_temperature, level_probe_height, probe_percent_height, litres_flat_bottom, "
+                        + "litres_hemispherical_bottom, litres_asme_fd_bottom, litres_torispherical_bottom, "
+                        + "oxygen_partial_pressure, boiloff_helium, boiloff_nitrogen)");
     }
 
     @Test
