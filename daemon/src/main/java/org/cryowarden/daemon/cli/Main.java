@@ -16,8 +16,8 @@ import picocli.CommandLine.Command;
         versionProvider = VersionProvider.class,
         description = {
             "Supervisory monitoring and alarm daemon for cryogenic laboratories.",
-            "cryowarden is a supervisory layer, not a certified safety system: it never replaces hardwired",
-            "oxygen monitoring, relief devices or local codes."
+            "cryowarden is a supervisory layer, not a certified safety system.",
+            "It never replaces hardwired oxygen monitoring, relief devices or local codes."
         })
 public final class Main implements Runnable {
 
