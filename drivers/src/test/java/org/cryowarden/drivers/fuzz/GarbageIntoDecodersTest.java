@@ -63,7 +63,7 @@ class GarbageIntoDecodersTest {
     void masterOverAGarbageSpewingTransportClassifiesEveryTransaction() throws Exception {
         ScriptedTransport transport = ScriptedTransport.serial(written -> randomBytes(random.nextInt(300)));
         transport.reopen();
-        ModbusClient client = ModbusClient.forTransport(transport, Duration.ofMillis(1));
+        ModbusClient client = new ModbusClient(transport, Duration.ofNanos(1), Duration.ofNanos(1));
         ModbusRequest request = ModbusRequest.read(7, FunctionCode.READ_HOLDING_REGISTERS, 0, 4);
         Map<String, Integer> classes = new HashMap<>();
         for (int i = 0; i < 2_000; i++) {
