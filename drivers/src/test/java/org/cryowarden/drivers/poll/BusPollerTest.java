@@ -47,7 +47,7 @@ class BusPollerTest {
         assertThat(readings.stream().filter(r -> r.channel().equals("he-level")).count()).isEqualTo(7);
         assertThat(readings.stream().filter(r -> r.channel().equals("bath-pressure")).count()).isEqualTo(3);
         assertThat(readings).allMatch(r -> r.quality() == Quality.GOOD);
-        assertThat(readings.get(0).value()).isEqualTo(42.5); // register 425 with scale 0.1
+        assertThat(readings.get(0).value()).isCloseTo(42.5, org.assertj.core.api.Assertions.within(1e-9)); // 425 * 0.1
         assertThat(readings.get(0).timestamp()).isEqualTo(Instant.parse("2026-01-10T22:00:00Z"));
     }
 
