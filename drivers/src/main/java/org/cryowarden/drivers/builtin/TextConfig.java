@@ -62,9 +62,10 @@ record TextConfig(Terminator terminator, Duration timeout, boolean stream, boole
                 PointTargets.channel(point, instrument, context, problems);
                 reader.allowOnly("query");
                 Optional<String> query = message(reader, "query", true, where);
-                if (query.isPresent() && !query.get().strip().endsWith("?")) {
+                if (query.isPresent() && !isQuery(query.get())) {
                     reader.problem(reader.position("query"), "query in " + where
-                            + " must be a SCPI query ending in '?', got '" + query.get() + "'");
+                            + " must be a SCPI query (a header ending in '?', e.g. MEAS:TEMP? A), got '"
+                            + query.get() + "'");
                 }
                 problems.addAll(reader.problems());
                 if (reader.problems().isEmpty()) {
@@ -119,6 +120,13 @@ record TextConfig(Terminator terminator, Duration timeout, boolean stream, boole
         }
         return new Parsed(problems.isEmpty() ? Optional.of(new TextConfig(terminator, timeout, stream, false, maxLine,
                 points)) : Optional.empty(), problems);
+    }
+
+    /** True when the last program message unit's header ends in '?' ("MEAS:TEMP? A", "*IDN?"). */
+    private static boolean isQuery(String message) {
+        String[] units = message.strip().split(";");
+        String last = units[units.length - 1].strip();
+        return !last.isEmpty() && last.split("\\s+")[0].endsWith("?");
     }
 
     private static SettingsReader reader(InstrumentDef instrument) {
