@@ -84,7 +84,11 @@ public final class DriverCatalog {
     private static List<Path> jars(Path folder, List<LoadFailure> failures) {
         List<Path> jars = new ArrayList<>();
         try (DirectoryStream<Path> listing = Files.newDirectoryStream(folder, "*.jar")) {
-            listing.forEach(jars::add);
+            listing.forEach(path -> {
+                if (Files.isRegularFile(path)) {
+                    jars.add(path);
+                }
+            });
         } catch (IOException e) {
             failures.add(new LoadFailure(folder.toString(), "cannot list the plugins folder: " + e.getMessage()));
         }
