@@ -32,6 +32,8 @@ public final class Main implements Runnable {
     public static CommandLine commandLine() {
         CommandLine line = new CommandLine(new Main());
         line.setExecutionExceptionHandler(new InternalFailureHandler());
+        line.addSubcommand(new ProbeCommand());
+        line.addSubcommand(new PluginsCommand());
         return line;
     }
 
