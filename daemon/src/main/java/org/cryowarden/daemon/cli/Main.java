@@ -34,6 +34,8 @@ public final class Main implements Runnable {
         line.addSubcommand(CalcCommand.commandLine());
         line.setExecutionExceptionHandler(new InternalFailureHandler());
         line.addSubcommand(new CheckCommand());
+        line.addSubcommand(new ProbeCommand());
+        line.addSubcommand(new PluginsCommand());
         return line;
     }
 
