@@ -10,6 +10,9 @@ import org.cryowarden.rules.ConfigProblem;
 import org.cryowarden.rules.config.Configuration;
 import org.cryowarden.rules.config.ConfigurationLoader;
 import org.cryowarden.rules.config.DriverSettingsValidator;
+import java.util.Optional;
+import org.cryowarden.drivers.plugin.DriverCatalog;
+import org.cryowarden.drivers.site.SiteDrivers;
 import org.cryowarden.rules.TimeSource;
 import org.cryowarden.rules.engine.Engine;
 import org.cryowarden.rules.engine.EngineConfig;
@@ -44,15 +47,32 @@ final class CheckCommand implements Callable<Integer> {
             description = "rule-set files (*-rules.yaml); repeat the option or list several")
     List<Path> rules = new ArrayList<>();
 
-    private final DriverSettingsValidator drivers;
+    @Option(names = "--plugins", paramLabel = "DIR",
+            description = "folder of driver plugin jars (default: plugins/ next to the site file)")
+    Path plugins;
 
-    /** With every driver setting accepted; the drivers module supplies a validator through the other constructor. */
+    private final Optional<DriverSettingsValidator> fixedDrivers;
+
+    /**
+     * Checks transports, driver ids, settings and points against the installed drivers (built in, and the plugin
+     * jars of the plugins folder), as {@code run} will.
+     */
     CheckCommand() {
-        this(DriverSettingsValidator.acceptAll());
+        this.fixedDrivers = Optional.empty();
     }
 
+    /** With a given driver check, e.g. {@link DriverSettingsValidator#acceptAll()} to test the loader alone. */
     CheckCommand(DriverSettingsValidator drivers) {
-        this.drivers = drivers;
+        this.fixedDrivers = Optional.of(drivers);
+    }
+
+    private DriverSettingsValidator drivers() {
+        if (fixedDrivers.isPresent()) {
+            return fixedDrivers.get();
+        }
+        Path folder = plugins != null ? plugins : site.toAbsolutePath().getParent().resolve("plugins");
+        DriverCatalog catalog = DriverCatalog.discover(CheckCommand.class.getClassLoader(), Optional.of(folder));
+        return parsed -> SiteDrivers.validate(parsed, catalog, TimeSource.system());
     }
 
     @Override
@@ -61,7 +81,7 @@ final class CheckCommand implements Callable<Integer> {
         PrintWriter err = spec.commandLine().getErr();
         Configuration configuration;
         try {
-            configuration = ConfigurationLoader.load(site, rules, drivers);
+            configuration = ConfigurationLoader.load(site, rules, drivers());
         } catch (ConfigException e) {
             for (ConfigProblem problem : e.problems()) {
                 err.println(problem);

@@ -67,6 +67,40 @@ class CheckCommandTest {
     }
 
     @Test
+    void driverSettingsAreCheckedWithTheSameFilePositions() throws IOException {
+        Path site = folder.resolve("scratch-site.yaml");
+        Files.writeString(site, "site: {name: Scratch}\n"
+                + "buses:\n"
+                + "  - id: b1\n"
+                + "    transport: {kind: serial, port: /dev/ttyUSB9, parity: evn}\n"
+                + "    instruments:\n"
+                + "      - id: m1\n"
+                + "        driver: modbus-rtuu\n"
+                + "        settings: {unit: 3}\n"
+                + "        channels:\n"
+                + "          - {id: c1, unit: kPa, point: {table: input, address: 0}}\n"
+                + "      - id: m2\n"
+                + "        driver: modbus-rtu\n"
+                + "        settings: {unit: 300, timout: 1s}\n"
+                + "        channels:\n"
+                + "          - {id: c2, unit: kPa, point: {table: inptu, address: 0}}\n");
+
+        int exit = run("check", "--site", site.toString());
+
+        assertThat(exit).isEqualTo(2);
+        assertThat(err.toString().lines()).containsExactly(
+                site + ":4:59: parity in serial transport must be one of even, none, odd, got 'evn'; did you mean "
+                        + "'even'?",
+                site + ":6:9: instrument 'm1' uses driver 'modbus-rtuu', which is not installed; did you mean "
+                        + "'modbus-rtu'?; installed: modbus-rtu, scpi, line (see cryowarden plugins)",
+                site + ":13:26: unit in settings of instrument 'm2' must be 1-247, got 300",
+                site + ":13:31: unknown key 'timout' in settings of instrument 'm2'; did you mean 'timeout'?",
+                site + ":15:48: table in channel 'c2' of instrument 'm2' must be one of coil, discrete, holding, input, "
+                        + "got 'inptu'; did you mean 'input'?",
+                "5 errors found; nothing was started");
+    }
+
+    @Test
     void missingSiteOptionIsBadInput() {
         assertThat(run("check")).isEqualTo(2);
         assertThat(err.toString()).startsWith("Missing required option: '--site=FILE'");

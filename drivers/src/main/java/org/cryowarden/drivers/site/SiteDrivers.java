@@ -14,6 +14,7 @@ import org.cryowarden.drivers.spi.DriverContext;
 import org.cryowarden.drivers.spi.DriverFactory;
 import org.cryowarden.drivers.transport.Transports;
 import org.cryowarden.rules.ConfigProblem;
+import org.cryowarden.rules.NameMatch;
 import org.cryowarden.rules.TimeSource;
 import org.cryowarden.rules.model.BusDef;
 import org.cryowarden.rules.model.ChannelDef;
@@ -43,8 +44,10 @@ public final class SiteDrivers {
                 Optional<DriverFactory> factory = catalog.find(instrument.driver());
                 if (factory.isEmpty()) {
                     problems.add(new ConfigProblem(instrument.position(), "instrument '" + instrument.id()
-                            + "' uses driver '" + instrument.driver() + "', which is not installed; installed: "
-                            + String.join(", ", catalog.ids()) + " (see cryowarden plugins)"));
+                            + "' uses driver '" + instrument.driver() + "', which is not installed"
+                            + NameMatch.closest(instrument.driver(), catalog.ids())
+                                    .map(id -> "; did you mean '" + id + "'?").orElse("")
+                            + "; installed: " + String.join(", ", catalog.ids()) + " (see cryowarden plugins)"));
                     continue;
                 }
                 try {

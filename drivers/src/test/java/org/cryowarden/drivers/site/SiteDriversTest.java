@@ -45,8 +45,8 @@ class SiteDriversTest {
         assertThat(SiteDrivers.validate(site, catalog, time)).extracting(ConfigProblem::message).containsExactly(
                 "parity in serial transport must be one of even, none, odd, got 'mark'",
                 "flow_control in serial transport must be one of none, rts-cts, xon-xoff, got 'rts'",
-                "instrument 'o2-transmitters' uses driver 'modbus-tcp', which is not installed; installed: "
-                        + "modbus-rtu, scpi, line (see cryowarden plugins)");
+                "instrument 'o2-transmitters' uses driver 'modbus-tcp', which is not installed; did you mean "
+                        + "'modbus-rtu'?; installed: modbus-rtu, scpi, line (see cryowarden plugins)");
     }
 
     @Test

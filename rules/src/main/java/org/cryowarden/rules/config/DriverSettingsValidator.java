@@ -2,7 +2,7 @@ package org.cryowarden.rules.config;
 
 import java.util.List;
 import org.cryowarden.rules.ConfigProblem;
-import org.cryowarden.rules.model.BusDef;
+import org.cryowarden.rules.model.SiteDef;
 
 /**
  * The hook through which the drivers module checks what the site loader deliberately leaves uninterpreted: a
@@ -10,17 +10,20 @@ import org.cryowarden.rules.model.BusDef;
  * output. The loader has already checked the structure around them; every {@link org.cryowarden.rules.config.ConfigNode}
  * handed over keeps its position, so problems come back as {@code FILE:LINE:COLUMN: message} like any other.
  *
- * <p>Called once per bus, after the whole site file has been read, on the caller's thread; never with a bus
- * whose structure failed to load.
+ * <p>Called once, after the whole site file has been read, on the caller's thread; never with a site whose
+ * structure failed to load.
  */
 @FunctionalInterface
 public interface DriverSettingsValidator {
 
-    /** Every problem with the driver-specific parts of {@code bus}; empty when they are all valid. */
-    List<ConfigProblem> validate(BusDef bus);
+    /**
+     * Every problem with the driver-specific parts of the site (bus transports, instrument settings, points), in
+     * file order; empty when they are all valid. Called once per site file whose structure loaded.
+     */
+    List<ConfigProblem> validate(SiteDef site);
 
     /** Accepts every driver setting: for loading without the drivers module (the rules module's own tests). */
     static DriverSettingsValidator acceptAll() {
-        return bus -> List.of();
+        return site -> List.of();
     }
 }

@@ -83,18 +83,14 @@ public final class SiteLoader {
             return SiteFile.unreadable(file.toString());
         }
         SiteFile site = new Reader(problems).read(root, file.toString());
-        site.site().ifPresent(def -> {
-            for (BusDef bus : def.buses()) {
-                problems.addAll(drivers.validate(bus));
-            }
-        });
+        site.site().ifPresent(def -> problems.addAll(drivers.validate(def)));
         return site;
     }
 
-    /** The state of reading one file. */
     /** The engine's catalogue: the loader refuses what the engine could not bind, with positions. */
     private static final DerivedFunctions FUNCTIONS = DerivedFunctions.builtIn();
 
+    /** The state of reading one file. */
     private static final class Reader {
         private final Problems problems;
         private final SourceMap sources = new SourceMap();

@@ -106,8 +106,8 @@ class SiteLoaderTest {
 
     @Test
     void driverValidatorProblemsAreReportedWithTheSiteProblems() {
-        DriverSettingsValidator drivers = bus -> List.of(new ConfigProblem(
-                bus.instruments().get(0).settings().position(), "driver says no"));
+        DriverSettingsValidator drivers = site -> List.of(new ConfigProblem(
+                site.buses().get(0).instruments().get(0).settings().position(), "driver says no"));
         try {
             SiteLoader.load(Path.of(SMALL), drivers);
         } catch (ConfigException e) {
