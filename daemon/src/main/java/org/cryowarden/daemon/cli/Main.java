@@ -32,6 +32,7 @@ public final class Main implements Runnable {
     public static CommandLine commandLine() {
         CommandLine line = new CommandLine(new Main());
         line.setExecutionExceptionHandler(new InternalFailureHandler());
+        line.addSubcommand(new SimulateCommand());
         return line;
     }
 
