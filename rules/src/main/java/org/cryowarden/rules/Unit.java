@@ -171,6 +171,10 @@ public enum Unit {
      */
     public double convert(double value, Unit target, double ambientPascal) {
         requireSameDimension(target);
+        if (target == this) {
+            // exact: a trip through the SI base would turn 850 °C into 850.0000000000001 °C
+            return value;
+        }
         double base = toBase(value);
         PressureReference from = pressureReference();
         PressureReference to = target.pressureReference();

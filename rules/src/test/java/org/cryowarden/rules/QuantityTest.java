@@ -39,6 +39,12 @@ class QuantityTest {
     }
 
     @Test
+    void conversionIntoTheSameUnitIsExact() {
+        assertThat(Quantity.parse("850C").in(Unit.CELSIUS)).isEqualTo(850.0);
+        assertThat(Quantity.parse("0.2 bar(g)").in(Unit.BAR_GAUGE, 85_000)).isEqualTo(0.2);
+    }
+
+    @Test
     void typographicMinusIsAccepted() {
         assertThat(Quantity.parse("\u2212196 °C").toBase()).isCloseTo(77.15, within(1e-9));
     }

@@ -31,7 +31,10 @@ public final class Main implements Runnable {
     /** A new command tree with every subcommand registered. */
     public static CommandLine commandLine() {
         CommandLine line = new CommandLine(new Main());
+        line.addSubcommand(CalcCommand.commandLine());
         line.setExecutionExceptionHandler(new InternalFailureHandler());
+        line.addSubcommand(new ProbeCommand());
+        line.addSubcommand(new PluginsCommand());
         line.addSubcommand(new SimulateCommand());
         return line;
     }

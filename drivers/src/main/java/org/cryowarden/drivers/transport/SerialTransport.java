@@ -3,6 +3,8 @@ package org.cryowarden.drivers.transport;
 import com.fazecast.jSerialComm.SerialPort;
 import com.fazecast.jSerialComm.SerialPortInvalidPortException;
 import java.io.IOException;
+import java.nio.file.Files;
+import java.nio.file.Path;
 import java.time.Duration;
 import java.util.Objects;
 import java.util.OptionalInt;
@@ -24,6 +26,7 @@ public final class SerialTransport implements Transport {
     private static final Duration CLOSE_BOUND = Duration.ofSeconds(2);
     private static final int EACCES = 13;
     private static final int ENOENT = 2;
+    private static final int EAGAIN = 11;
     private static final int EBUSY = 16;
 
     private final SerialSettings settings;
@@ -74,8 +77,7 @@ public final class SerialTransport implements Transport {
         try {
             port = SerialPort.getCommPort(settings.port());
         } catch (SerialPortInvalidPortException e) {
-            throw new IOException("serial port " + settings.port() + " does not exist; check the path (ls -l "
-                    + settings.port() + ") and that the adapter is plugged in", e);
+            throw new IOException(openFailure(ENOENT, false), e);
         }
         port.setComPortParameters(settings.baud(), settings.dataBits(),
                 settings.stopBits() == 2 ? SerialPort.TWO_STOP_BITS : SerialPort.ONE_STOP_BIT,
@@ -91,7 +93,7 @@ public final class SerialTransport implements Transport {
         });
         port.setComPortTimeouts(SerialPort.TIMEOUT_READ_SEMI_BLOCKING | SerialPort.TIMEOUT_WRITE_BLOCKING, 100, 1000);
         if (!port.openPort(0)) {
-            throw new IOException(openFailure(port.getLastErrorCode()));
+            throw new IOException(openFailure(port.getLastErrorCode(), Files.exists(Path.of(settings.port()))));
         }
         Session opened = new Session(port, new ByteInbox(8192));
         Thread reader = new Thread(() -> pump(opened), "serial-reader " + settings.port());
@@ -156,14 +158,21 @@ public final class SerialTransport implements Transport {
         }
     }
 
-    /** The message an operator sees when the port cannot be opened, naming the fix. */
-    String openFailure(int errorCode) {
+    /**
+     * The message an operator sees when the port cannot be opened, naming the fix. jSerialComm 2.11 reports the
+     * errno of its last failing call: 13 for permission denied (jSerialComm #446); an existing port that another
+     * program holds shows as 2, 11 or 16 from the exclusive lock (trial with a pseudo-terminal here).
+     */
+    String openFailure(int errorCode, boolean pathExists) {
         String port = settings.port();
+        if (!pathExists) {
+            return "serial port " + port + " does not exist; check the path and that the adapter is plugged in";
+        }
         return switch (errorCode) {
             case EACCES -> "permission denied opening serial port " + port + ": add the user running cryowarden to "
                     + "the 'dialout' group (sudo usermod -aG dialout USER, then log in again)";
-            case ENOENT -> "serial port " + port + " does not exist; check the path and that the adapter is plugged in";
-            case EBUSY -> "serial port " + port + " is in use by another program (it is opened exclusively)";
+            case ENOENT, EAGAIN, EBUSY -> "serial port " + port + " is in use by another program (cryowarden opens "
+                    + "it exclusively); find it with: fuser -v " + port;
             default -> "cannot open serial port " + port + " (error " + errorCode + ")";
         };
     }

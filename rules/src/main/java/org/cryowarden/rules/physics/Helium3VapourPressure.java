@@ -30,7 +30,8 @@ public final class Helium3VapourPressure {
      *
      * @throws OutOfRangeException outside the vapour pressures of 0.65 K to 3.2 K, or for NaN
      */
-    public static HeliumSaturation temperature(double pascal) {
+    public static HeliumSaturation temperature(double measuredPascal) {
+        double pascal = RangeCheck.snapToBounds(measuredPascal, MIN_PASCAL, MAX_PASCAL);
         RangeCheck.finite("helium-3 vapour pressure", pascal);
         if (pascal < MIN_PASCAL || pascal > MAX_PASCAL) {
             throw new OutOfRangeException("pressure " + Pressures.describe(pascal)
@@ -45,7 +46,8 @@ public final class Helium3VapourPressure {
      *
      * @throws OutOfRangeException outside 0.65 K to 3.2 K, or for NaN
      */
-    public static double pressure(double kelvin) {
+    public static double pressure(double requestedKelvin) {
+        double kelvin = RangeCheck.snapToBounds(requestedKelvin, MIN_KELVIN, MAX_KELVIN);
         RangeCheck.finite("helium-3 bath temperature", kelvin);
         if (kelvin < MIN_KELVIN || kelvin > MAX_KELVIN) {
             throw new OutOfRangeException("temperature " + RangeCheck.format(kelvin)

@@ -38,7 +38,8 @@ public final class Helium4VapourPressure {
      *
      * @throws OutOfRangeException outside the vapour pressures of 1.25 K to 5.0 K, or for NaN
      */
-    public static HeliumSaturation temperature(double pascal) {
+    public static HeliumSaturation temperature(double measuredPascal) {
+        double pascal = RangeCheck.snapToBounds(measuredPascal, MIN_PASCAL, MAX_PASCAL);
         RangeCheck.finite("helium-4 vapour pressure", pascal);
         if (pascal < MIN_PASCAL || pascal > MAX_PASCAL) {
             throw new OutOfRangeException("pressure " + Pressures.describe(pascal)
@@ -57,13 +58,15 @@ public final class Helium4VapourPressure {
      *
      * @throws OutOfRangeException outside 1.25 K to 5.0 K, or for NaN
      */
-    public static double pressure(double kelvin) {
+    public static double pressure(double requestedKelvin) {
+        double kelvin = RangeCheck.snapToBounds(requestedKelvin, MIN_KELVIN, MAX_KELVIN);
         checkTemperature(kelvin);
         return kelvin < LAMBDA_KELVIN ? LOWER.pressure(kelvin) : UPPER.pressure(kelvin);
     }
 
     /** He II below the lambda point, He I at and above it. */
-    public static HeliumPhase phase(double kelvin) {
+    public static HeliumPhase phase(double requestedKelvin) {
+        double kelvin = RangeCheck.snapToBounds(requestedKelvin, MIN_KELVIN, MAX_KELVIN);
         checkTemperature(kelvin);
         return kelvin < LAMBDA_KELVIN ? HeliumPhase.HE_II : HeliumPhase.HE_I;
     }

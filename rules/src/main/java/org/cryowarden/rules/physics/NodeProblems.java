@@ -109,6 +109,12 @@ final class NodeProblems {
     }
 
     private static String nearest(String key, Set<String> allowed) {
+        String lower = key.toLowerCase(Locale.ROOT);
+        for (String candidate : allowed.stream().sorted().toList()) {
+            if (lower.length() >= 3 && candidate.startsWith(lower)) {
+                return " (did you mean '" + candidate + "'?)";
+            }
+        }
         String best = null;
         int bestDistance = Integer.MAX_VALUE;
         for (String candidate : allowed.stream().sorted().toList()) {
@@ -118,7 +124,7 @@ final class NodeProblems {
                 bestDistance = distance;
             }
         }
-        return best != null && bestDistance <= 2 ? " (did you mean '" + best + "'?)" : "";
+        return best != null && bestDistance <= Math.min(2, key.length() / 3) ? " (did you mean '" + best + "'?)" : "";
     }
 
     private static int distance(String a, String b) {

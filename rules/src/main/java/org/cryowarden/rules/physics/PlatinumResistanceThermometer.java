@@ -51,8 +51,10 @@ public final class PlatinumResistanceThermometer {
      *
      * @throws OutOfRangeException outside -200 °C to 850 °C, or for NaN
      */
-    public double resistance(double celsius) {
+    public double resistance(double requestedCelsius) {
+        double celsius = requestedCelsius;
         RangeCheck.finite("PRT temperature", celsius);
+        celsius = RangeCheck.snapToBounds(celsius, MIN_CELSIUS, MAX_CELSIUS);
         if (celsius < MIN_CELSIUS || celsius > MAX_CELSIUS) {
             throw new OutOfRangeException("temperature " + RangeCheck.format(celsius)
                     + " °C is outside the IEC 60751 range -200 °C to 850 °C");
@@ -65,8 +67,10 @@ public final class PlatinumResistanceThermometer {
      *
      * @throws OutOfRangeException outside R(-200 °C) to R(850 °C) for this R0, or for NaN
      */
-    public double temperature(double ohm) {
+    public double temperature(double measuredOhm) {
+        double ohm = measuredOhm;
         RangeCheck.finite("PRT resistance", ohm);
+        ohm = RangeCheck.snapToBounds(ohm, minOhm(), maxOhm());
         if (ohm < minOhm() || ohm > maxOhm()) {
             throw new OutOfRangeException("resistance " + RangeCheck.format(ohm) + " ohm is outside the IEC 60751 range "
                     + RangeCheck.fixed(minOhm(), 4) + " ohm to " + RangeCheck.fixed(maxOhm(), 4)

@@ -32,6 +32,21 @@ final class RangeCheck {
         return value;
     }
 
+    /**
+     * A value a unit conversion left a few ulps outside a range bound ({@code 1123.15 K} is
+     * {@code 850.0000000000001 °C}) is moved onto the bound; anything further out is returned unchanged for the
+     * caller's range check to refuse. The tolerance, 1e-12 of the bound, is far below any measurement.
+     */
+    static double snapToBounds(double value, double min, double max) {
+        if (value < min && value >= min - 1e-12 * Math.max(1, Math.abs(min))) {
+            return min;
+        }
+        if (value > max && value <= max + 1e-12 * Math.max(1, Math.abs(max))) {
+            return max;
+        }
+        return value;
+    }
+
     /** Up to six significant digits, no exponent for everyday magnitudes, no trailing zeros: 114.77, 0.0012, 2e-07. */
     static String format(double value) {
         if (value == 0) {

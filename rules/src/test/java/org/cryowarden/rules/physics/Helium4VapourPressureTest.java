@@ -86,10 +86,18 @@ class Helium4VapourPressureTest {
                 .isInstanceOf(OutOfRangeException.class)
                 .hasMessage("pressure 250.000 kPa is outside the ITS-90 helium-4 vapour-pressure range 114.73 Pa to "
                         + "196.017 kPa (1.25 K to 5.0 K)");
-        assertThatThrownBy(() -> Helium4VapourPressure.temperature(Math.nextDown(Helium4VapourPressure.MIN_PASCAL)))
+        assertThatThrownBy(() -> Helium4VapourPressure.temperature(Helium4VapourPressure.MIN_PASCAL * (1 - 1e-9)))
                 .isInstanceOf(OutOfRangeException.class);
         assertThatThrownBy(() -> Helium4VapourPressure.temperature(Double.NaN))
                 .hasMessage("helium-4 vapour pressure must be a finite number, got NaN");
+    }
+
+    @Test
+    void conversionRoundingAtARangeEndIsNotAnError() {
+        // 5 K written as 5000 mK or reached through a unit conversion may land an ulp outside
+        assertThat(Helium4VapourPressure.pressure(Math.nextUp(5.0))).isEqualTo(Helium4VapourPressure.pressure(5.0));
+        assertThat(Helium4VapourPressure.temperature(Math.nextUp(Helium4VapourPressure.MAX_PASCAL)).temperatureKelvin())
+                .isCloseTo(5.0, within(1e-9));
     }
 
     @Test

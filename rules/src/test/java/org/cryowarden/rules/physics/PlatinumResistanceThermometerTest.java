@@ -68,6 +68,8 @@ class PlatinumResistanceThermometerTest {
                 .isInstanceOf(OutOfRangeException.class)
                 .hasMessage("resistance 18.52 ohm is outside the IEC 60751 range 18.5201 ohm to 390.4811 ohm "
                         + "(-200 °C to 850 °C) for R0 = 100 ohm");
+        // 1123.15 K is 850.0000000000001 °C after conversion: rounding, not a range error
+        assertThat(pt100.resistance(1123.15 - 273.15)).isEqualTo(pt100.resistance(850));
         assertThatThrownBy(() -> pt100.resistance(850.001))
                 .hasMessage("temperature 850.001 °C is outside the IEC 60751 range -200 °C to 850 °C");
         assertThatThrownBy(() -> new PlatinumResistanceThermometer(0))
