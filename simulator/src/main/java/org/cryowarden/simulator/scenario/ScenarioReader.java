@@ -896,7 +896,7 @@ public final class ScenarioReader {
         if (known.contains(target)) {
             return true;
         }
-        r.problem(r.position("target"), "target '" + target + "' of " + what + " is not a " + kind
+        r.problem(r.position("target"), "target '" + target + "' of " + what + " is not " + (kind.startsWith("i") ? "an " : "a ") + kind
                 + " of this scenario" + hint(target, known));
         return false;
     }
