@@ -2,7 +2,6 @@ package org.cryowarden.daemon.cli;
 
 import java.io.IOException;
 import java.io.PrintWriter;
-import java.io.Writer;
 import java.net.InetAddress;
 import java.net.UnknownHostException;
 import java.nio.charset.StandardCharsets;
@@ -115,7 +114,7 @@ final class SimulateCommand implements Callable<Integer> {
         Duration duration = hours != null ? Duration.ofMillis(Math.round(hours * 3_600_000)) : scenario.duration();
         Pace pace = fast ? Pace.FAST : Pace.times(speed != null ? speed : 1);
         VirtualTimeSource clock = new VirtualTimeSource(scenario.start());
-        Writer traceOut = null;
+        TraceWriter traceOut = null;
         try (Simulator simulator = Simulator.create(scenario, clock, true)) {
             out.println("scenario " + scenario.name() + " (" + scenarioFile + "): " + format(duration) + " from "
                     + scenario.start() + ", step " + format(scenario.step()) + ", "
@@ -137,12 +136,12 @@ final class SimulateCommand implements Callable<Integer> {
             out.flush();
             if (trace != null) {
                 try {
-                    traceOut = Files.newBufferedWriter(trace, StandardCharsets.UTF_8);
+                    traceOut = new TraceWriter(Files.newBufferedWriter(trace, StandardCharsets.UTF_8));
                 } catch (IOException e) {
                     err.println("simulate: cannot write the trace " + trace + ": " + e.getMessage());
                     return BAD_INPUT;
                 }
-                simulator.addStepListener(new TraceWriter(traceOut));
+                simulator.addStepListener(traceOut);
             }
             int[] printed = {0};
             simulator.addStepListener((state, sensors) -> {
