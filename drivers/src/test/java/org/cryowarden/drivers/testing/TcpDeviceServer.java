@@ -24,8 +24,11 @@ public final class TcpDeviceServer implements AutoCloseable {
     private final ScriptedTransport.Responder modbus;
     private final UnaryOperator<String> lines;
 
-    private TcpDeviceServer(ScriptedTransport.Responder modbus, UnaryOperator<String> lines) throws IOException {
-        this.server = new ServerSocket(0, 4, InetAddress.getLoopbackAddress());
+    private TcpDeviceServer(int port, ScriptedTransport.Responder modbus, UnaryOperator<String> lines)
+            throws IOException {
+        this.server = new ServerSocket();
+        this.server.setReuseAddress(true);
+        this.server.bind(new java.net.InetSocketAddress(InetAddress.getLoopbackAddress(), port), 4);
         this.modbus = modbus;
         this.lines = lines;
         this.thread = new Thread(this::serve, "tcp-device " + server.getLocalPort());
@@ -34,11 +37,16 @@ public final class TcpDeviceServer implements AutoCloseable {
     }
 
     public static TcpDeviceServer modbus(ScriptedTransport.Responder device) throws IOException {
-        return new TcpDeviceServer(device, null);
+        return new TcpDeviceServer(0, device, null);
     }
 
     public static TcpDeviceServer lines(UnaryOperator<String> answer) throws IOException {
-        return new TcpDeviceServer(null, answer);
+        return new TcpDeviceServer(0, null, answer);
+    }
+
+    /** A line device on a given port, e.g. to come back where a previous one was. */
+    public static TcpDeviceServer lines(int port, UnaryOperator<String> answer) throws IOException {
+        return new TcpDeviceServer(port, null, answer);
     }
 
     public int port() {
@@ -50,9 +58,12 @@ public final class TcpDeviceServer implements AutoCloseable {
         return "127.0.0.1:" + port();
     }
 
+    private volatile Socket client;
+
     private void serve() {
         while (!server.isClosed()) {
             try (Socket socket = server.accept()) {
+                client = socket;
                 socket.setTcpNoDelay(true);
                 handle(socket.getInputStream(), socket.getOutputStream());
             } catch (IOException e) {
@@ -113,6 +124,10 @@ public final class TcpDeviceServer implements AutoCloseable {
     @Override
     public void close() throws IOException, InterruptedException {
         server.close();
+        Socket current = client;
+        if (current != null) {
+            current.close();
+        }
         thread.join(5_000);
     }
 }
