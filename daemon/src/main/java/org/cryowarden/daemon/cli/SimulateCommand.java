@@ -153,7 +153,7 @@ final class SimulateCommand implements Callable<Integer> {
             });
             long realStart = System.nanoTime();
             SimulationRun run = simulator.start(pace, duration);
-            Thread hook = new Thread(run::stop, "simulate-shutdown");
+            Thread hook = new Thread(simulator::close, "simulate-shutdown"); // Ctrl-C: stop socat, remove pty links
             Runtime.getRuntime().addShutdownHook(hook);
             while (!run.await(Duration.ofSeconds(1))) {
                 // waiting for the night to pass; Ctrl-C stops it through the hook
