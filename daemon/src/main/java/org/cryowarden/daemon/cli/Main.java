@@ -36,6 +36,7 @@ public final class Main implements Runnable {
         line.addSubcommand(new CheckCommand());
         line.addSubcommand(new ProbeCommand());
         line.addSubcommand(new PluginsCommand());
+        line.addSubcommand(new SimulateCommand());
         return line;
     }
 
