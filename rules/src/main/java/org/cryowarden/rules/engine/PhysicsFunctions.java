@@ -5,6 +5,7 @@ import org.cryowarden.rules.Unit;
 import org.cryowarden.rules.physics.BoilOff;
 import org.cryowarden.rules.physics.Cryogen;
 import org.cryowarden.rules.physics.Helium4VapourPressure;
+import org.cryowarden.rules.physics.NitrogenSaturation;
 import org.cryowarden.rules.physics.OxygenPartialPressure;
 import org.cryowarden.rules.physics.PlatinumResistanceThermometer;
 import org.cryowarden.rules.physics.SuperconductingLevelProbe;
@@ -30,6 +31,9 @@ final class PhysicsFunctions {
                         "helium-4 bath temperature from its vapour pressure (ITS-90)",
                         List.of(Unit.PASCAL), Unit.KELVIN, List.of(),
                         (in, p) -> Helium4VapourPressure.temperature(in[0]).temperatureKelvin()))
+                .with(DerivedFunctions.Entry.fixedUnits("n2_saturation_temperature",
+                        "nitrogen bath temperature from its vapour pressure (Span et al. 2000)",
+                        List.of(Unit.PASCAL), Unit.KELVIN, List.of(), (in, p) -> NitrogenSaturation.temperature(in[0])))
                 .with(DerivedFunctions.Entry.fixedUnits("prt_temperature",
                         "temperature of a platinum resistance thermometer (IEC 60751)",
                         List.of(Unit.OHM), Unit.CELSIUS,

@@ -85,7 +85,7 @@ class SiteLoaderTest {
                 BROKEN + ":28:17: duplicate channel id 'o2-a': already used at " + BROKEN + ":12:17",
                 BROKEN + ":33:19: 'channels' in instrument 'module-2' must be a list of channels, found 'o2-a'",
                 BROKEN + ":35:31: unknown function 'minimum' in derived channel 'o2-lowest': expected one of "
-                        + "min, max, mean, difference, he4_saturation_temperature, prt_temperature, level_probe_height, "
+                        + "min, max, mean, difference, he4_saturation_temperature, n2_saturation_temperature, prt_temperature, level_probe_height, "
                         + "probe_percent_height, litres_flat_bottom, litres_hemispherical_bottom, litres_asme_fd_bottom, "
                         + "litres_torispherical_bottom, oxygen_partial_pressure, boiloff_helium, boiloff_nitrogen",
                 BROKEN + ":36:58: unit mismatch: input 'o2-a' is in %vol, a gas concentration (%vol, ppm), but "

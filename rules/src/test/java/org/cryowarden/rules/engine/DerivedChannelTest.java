@@ -148,7 +148,7 @@ class DerivedChannelTest {
     @Test
     void builtInCatalogueNamesItsFunctions() {
         assertThat(DerivedFunctions.builtIn().names()).containsExactly("min", "max", "mean", "difference",
-                "he4_saturation_temperature", "prt_temperature", "level_probe_height", "probe_percent_height",
+                "he4_saturation_temperature", "n2_saturation_temperature", "prt_temperature", "level_probe_height", "probe_percent_height",
                 "litres_flat_bottom", "litres_hemispherical_bottom", "litres_asme_fd_bottom",
                 "litres_torispherical_bottom", "oxygen_partial_pressure", "boiloff_helium", "boiloff_nitrogen");
         assertThatThrownBy(() -> DerivedFunctions.builtIn().with(

@@ -102,7 +102,7 @@ class EngineConfigTest {
 
         assertThatThrownBy(site::engine).hasMessage("hall-rules.yaml:12:5: derived channel t_mean: unknown function "
                 + "'maen': did you mean 'mean'? (built in: min, max, mean, difference, he4_saturation_temperature, "
-                        + "prt_temperature, level_probe_height, probe_percent_height, litres_flat_bottom, "
+                        + "n2_saturation_temperature, prt_temperature, level_probe_height, probe_percent_height, litres_flat_bottom, "
                         + "litres_hemispherical_bottom, litres_asme_fd_bottom, litres_torispherical_bottom, "
                         + "oxygen_partial_pressure, boiloff_helium, boiloff_nitrogen)");
     }

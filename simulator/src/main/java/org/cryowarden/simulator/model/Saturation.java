@@ -2,6 +2,7 @@ package org.cryowarden.simulator.model;
 
 import org.cryowarden.rules.physics.Cryogen;
 import org.cryowarden.rules.physics.Helium4VapourPressure;
+import org.cryowarden.rules.physics.NitrogenSaturation;
 
 /**
  * The bath temperature of a boiling liquid at its vapour pressure: ITS-90 for helium-4 (through

@@ -1,4 +1,4 @@
-package org.cryowarden.simulator.model;
+package org.cryowarden.rules.physics;
 
 /**
  * Saturated vapour pressure of nitrogen and its inverse, by the vapour-pressure ancillary equation of
@@ -7,9 +7,7 @@ package org.cryowarden.simulator.model;
  * J. Phys. Chem. Ref. Data 29 (2000) 1361, p. 1368:
  * {@code ln(p/pc) = (Tc/T) (N1 t + N2 t^1.5 + N3 t^2.5 + N4 t^5)}, {@code t = 1 - T/Tc}, Tc = 126.192 K,
  * pc = 3.3958 MPa, from the triple point (63.151 K) to the critical point.
- *
- * <p>The rules module has no nitrogen saturation curve yet, so the simulator carries this one; it belongs in
- * {@code org.cryowarden.rules.physics} beside the ITS-90 helium equations.
+ * Outside that range it throws {@link OutOfRangeException}; nothing is extrapolated.
  */
 public final class NitrogenSaturation {
 
@@ -31,7 +29,7 @@ public final class NitrogenSaturation {
     /** Saturated vapour pressure in Pa at a temperature between the triple and the critical point. */
     public static double pressure(double kelvin) {
         if (!(kelvin >= TRIPLE_KELVIN && kelvin <= CRITICAL_KELVIN)) {
-            throw new IllegalArgumentException("nitrogen temperature " + kelvin
+            throw new OutOfRangeException("nitrogen temperature " + kelvin
                     + " K is outside the saturation curve 63.151 K to 126.192 K");
         }
         double t = 1 - kelvin / CRITICAL_KELVIN;
@@ -42,7 +40,7 @@ public final class NitrogenSaturation {
     /** Saturation temperature in K at an absolute pressure, by bisection on {@link #pressure} (to 1 µK). */
     public static double temperature(double pascal) {
         if (!(pascal >= TRIPLE_PASCAL && pascal <= CRITICAL_PASCAL)) {
-            throw new IllegalArgumentException("nitrogen pressure " + pascal
+            throw new OutOfRangeException("nitrogen pressure " + pascal
                     + " Pa is outside the saturation curve (triple point to critical point)");
         }
         double lo = TRIPLE_KELVIN;

@@ -1,4 +1,4 @@
-package org.cryowarden.simulator.model;
+package org.cryowarden.rules.physics;
 
 import static org.assertj.core.api.Assertions.assertThat;
 import static org.assertj.core.api.Assertions.assertThatThrownBy;
