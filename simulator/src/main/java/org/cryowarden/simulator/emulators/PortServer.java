@@ -85,15 +85,34 @@ public final class PortServer implements AutoCloseable {
         return instruments;
     }
 
-    /** Binds and starts accepting; {@code tcpPort} 0 picks a free port, see {@link #port()}. */
+    /**
+     * Binds and starts accepting; {@code tcpPort} 0 picks a free port, see {@link #port()}. A picked port lies
+     * below the Linux ephemeral range (32768-60999), so that re-listening after a scripted disconnect cannot
+     * collide with the local port of some outgoing connection made meanwhile.
+     */
     public void start(InetAddress bindAddress, int tcpPort) throws IOException {
         this.host = bindAddress;
-        ServerSocket socket = bind(tcpPort);
+        ServerSocket socket = tcpPort == 0 ? bindBelowEphemeralRange() : bind(tcpPort);
         this.port = socket.getLocalPort();
         this.server = socket;
         acceptor = new Thread(this::acceptLoop, "sim-port " + spec.id());
         acceptor.setDaemon(true);
         acceptor.start();
+    }
+
+    private ServerSocket bindBelowEphemeralRange() throws IOException {
+        java.util.concurrent.ThreadLocalRandom random = java.util.concurrent.ThreadLocalRandom.current();
+        for (int attempt = 0; attempt < 64; attempt++) {
+            int candidate = random.nextInt(20_000, 32_000);
+            ServerSocket socket = new ServerSocket();
+            try {
+                socket.bind(new InetSocketAddress(host, candidate));
+                return socket;
+            } catch (IOException taken) {
+                socket.close();
+            }
+        }
+        return bind(0);
     }
 
     private ServerSocket bind(int tcpPort) throws IOException {
