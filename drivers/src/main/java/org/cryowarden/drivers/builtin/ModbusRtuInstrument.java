@@ -1,0 +1,171 @@
+package org.cryowarden.drivers.builtin;
+
+import java.io.IOException;
+import java.time.Duration;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Map;
+import java.util.Optional;
+import java.util.OptionalDouble;
+import org.cryowarden.drivers.analog.CurrentLoop;
+import org.cryowarden.drivers.modbus.ModbusClient;
+import org.cryowarden.drivers.modbus.ModbusReply;
+import org.cryowarden.drivers.modbus.ModbusRequest;
+import org.cryowarden.drivers.modbus.ModbusTable;
+import org.cryowarden.drivers.modbus.RegisterCodec;
+import org.cryowarden.drivers.modbus.RegisterType;
+import org.cryowarden.drivers.modbus.FrameFault;
+import org.cryowarden.drivers.spi.DriverContext;
+import org.cryowarden.drivers.spi.FaultCounters;
+import org.cryowarden.drivers.spi.InstrumentDriver;
+import org.cryowarden.drivers.spi.Transport;
+import org.cryowarden.drivers.spi.WriteResult;
+import org.cryowarden.rules.Quality;
+import org.cryowarden.rules.Reading;
+import org.cryowarden.rules.Unit;
+import org.cryowarden.rules.model.ChannelDef;
+
+/**
+ * One Modbus RTU slave: each point is read with its own request (function 01-04), writes use 05/06 (or 16 for
+ * 32-bit values) and are read back. No reply reads STALE; every other fault BAD with the codec's reason.
+ */
+final class ModbusRtuInstrument implements InstrumentDriver {
+
+    /**
+     * The silence that ends a received frame on top of t3.5: USB adapters and device servers deliver one frame in
+     * several chunks a few milliseconds apart (common practice; the FTDI latency timer defaults to 16 ms, from
+     * memory), so the pure 3.5-character interval would cut frames short.
+     */
+    static final Duration SERIAL_SILENCE = Duration.ofMillis(20);
+    static final Duration TCP_SILENCE = Duration.ofMillis(50);
+
+    private final String id;
+    private final ModbusRtuConfig config;
+    private final DriverContext context;
+    private final FaultCounters counters = new FaultCounters();
+    private Transport clientTransport;
+    private ModbusClient client;
+
+    ModbusRtuInstrument(String id, ModbusRtuConfig config, DriverContext context) {
+        this.id = id;
+        this.config = config;
+        this.context = context;
+    }
+
+    @Override
+    public String instrumentId() {
+        return id;
+    }
+
+    @Override
+    public Optional<String> connect(Transport transport) {
+        return Optional.empty();
+    }
+
+    @Override
+    public List<Reading> poll(List<String> channels, Transport transport) throws IOException {
+        List<Reading> readings = new ArrayList<>(channels.size());
+        for (String channel : channels) {
+            ModbusPoint point = config.points().get(channel);
+            ChannelDef def = context.channels().get(channel);
+            Unit unit = def == null ? Unit.ONE : def.unit();
+            if (point == null || point.output()) {
+                readings.add(Reading.bad(channel, unit, context.time().wallNow(), "instrument '" + id
+                        + "' has no input point for channel '" + channel + "'"));
+                continue;
+            }
+            readings.add(read(point, unit, transport));
+        }
+        return readings;
+    }
+
+    private Reading read(ModbusPoint point, Unit unit, Transport transport) throws IOException {
+        ModbusRequest request = ModbusRequest.read(config.unit(), point.table().readFunction(), point.address(),
+                point.quantity());
+        ModbusReply reply = client(transport).transact(request, config.timeout(), config.retries()).reply();
+        counters.increment(reply.counterKey());
+        if (!(reply instanceof ModbusReply.Values values)) {
+            boolean silent = reply instanceof ModbusReply.Fault fault && fault.fault() == FrameFault.NO_REPLY;
+            return new Reading(point.id(), Double.NaN, unit, context.time().wallNow(),
+                    silent ? Quality.STALE : Quality.BAD, reply.reason());
+        }
+        double raw = point.table().holdsBits() ? values.values()[0]
+                : RegisterCodec.decode(values.values(), 0, point.type(), point.order());
+        if (!Double.isFinite(raw)) {
+            counters.increment("not_a_number");
+            return Reading.bad(point.id(), unit, context.time().wallNow(), "unit " + config.unit() + " register "
+                    + point.address() + " holds a float32 " + raw);
+        }
+        double value = raw * point.scale() + point.offset();
+        if (point.loop().isPresent()) {
+            CurrentLoop.Value converted = point.loop().get().convert(value);
+            if (converted.quality() != Quality.GOOD) {
+                counters.increment(converted.quality() == Quality.BAD ? "loop_failure" : "loop_out_of_range");
+            }
+            return new Reading(point.id(), converted.value(), unit, context.time().wallNow(), converted.quality(),
+                    converted.reason());
+        }
+        return Reading.good(point.id(), value, unit, context.time().wallNow());
+    }
+
+    @Override
+    public WriteResult write(String output, double value, Transport transport) throws IOException {
+        ModbusPoint point = config.points().get(output);
+        if (point == null || !point.output()) {
+            return WriteResult.failed(output, value, "instrument '" + id + "' has no output '" + output + "'");
+        }
+        ModbusClient modbus = client(transport);
+        ModbusRequest request;
+        if (point.table() == ModbusTable.COIL) {
+            request = ModbusRequest.writeSingleCoil(config.unit(), point.address(), value != 0);
+        } else {
+            double raw = (value - point.offset()) / point.scale();
+            if (!RegisterCodec.fits(raw, point.type())) {
+                return WriteResult.failed(output, value, value + " does not fit a " + point.type().configName()
+                        + " register with scale " + point.scale() + " and offset " + point.offset());
+            }
+            int[] registers = RegisterCodec.encode(raw, point.type(), point.order());
+            request = registers.length == 1
+                    ? ModbusRequest.writeSingleRegister(config.unit(), point.address(), registers[0])
+                    : ModbusRequest.writeMultipleRegisters(config.unit(), point.address(), registers);
+        }
+        ModbusReply reply = modbus.transact(request, config.timeout(), config.retries()).reply();
+        counters.increment(reply.counterKey());
+        if (!reply.isOk()) {
+            return WriteResult.failed(output, value, reply.reason());
+        }
+        ModbusRequest readback = ModbusRequest.read(config.unit(), point.table().readFunction(), point.address(),
+                point.quantity());
+        ModbusReply back = modbus.transact(readback, config.timeout(), config.retries()).reply();
+        counters.increment(back.counterKey());
+        if (!(back instanceof ModbusReply.Values values)) {
+            return new WriteResult(output, value, OptionalDouble.empty(), false, "write confirmed but readback failed: "
+                    + back.reason());
+        }
+        double read = point.table().holdsBits() ? values.values()[0]
+                : RegisterCodec.decode(values.values(), 0, point.type(), point.order()) * point.scale() + point.offset();
+        double expected = point.table().holdsBits() ? (value != 0 ? 1 : 0) : value;
+        double tolerance = point.type() == RegisterType.FLOAT32 ? Math.abs(expected) * 1e-6 + 1e-9
+                : Math.abs(point.scale()) / 2 + 1e-12;
+        if (Math.abs(read - expected) > tolerance) {
+            counters.increment("readback_mismatch");
+            return new WriteResult(output, value, OptionalDouble.of(read), false, "readback " + read
+                    + " differs from the value written (" + expected + ")");
+        }
+        return WriteResult.confirmed(output, value, OptionalDouble.of(read));
+    }
+
+    @Override
+    public Map<String, Long> counters() {
+        return counters.snapshot();
+    }
+
+    private ModbusClient client(Transport transport) {
+        if (client == null || clientTransport != transport) {
+            clientTransport = transport;
+            client = ModbusClient.forTransport(transport,
+                    transport.baudRate().isPresent() ? SERIAL_SILENCE : TCP_SILENCE);
+        }
+        return client;
+    }
+}

@@ -1,0 +1,216 @@
+package org.cryowarden.drivers.poll;
+
+import static org.assertj.core.api.Assertions.assertThat;
+
+import java.io.IOException;
+import java.time.Duration;
+import java.time.Instant;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Map;
+import java.util.Optional;
+import java.util.OptionalInt;
+import org.cryowarden.drivers.builtin.ModbusRtuDriverFactory;
+import org.cryowarden.drivers.spi.DriverContext;
+import org.cryowarden.drivers.spi.InstrumentDriver;
+import org.cryowarden.drivers.spi.Transport;
+import org.cryowarden.drivers.spi.WriteResult;
+import org.cryowarden.drivers.testing.ModbusTestDevice;
+import org.cryowarden.drivers.testing.ScriptedTransport;
+import org.cryowarden.drivers.testing.Sites;
+import org.cryowarden.rules.Quality;
+import org.cryowarden.rules.Reading;
+import org.cryowarden.rules.Unit;
+import org.cryowarden.rules.VirtualTimeSource;
+import org.cryowarden.rules.model.ChannelDef;
+import org.cryowarden.rules.model.InstrumentDef;
+import org.junit.jupiter.api.Test;
+
+class BusPollerTest {
+
+    private final VirtualTimeSource time = new VirtualTimeSource(Instant.parse("2026-01-10T22:00:00Z"));
+    private final List<Reading> readings = new ArrayList<>();
+    private final ChannelDef fast = Sites.channel("he-level", Unit.PERCENT, Duration.ofSeconds(1));
+    private final ChannelDef slow = Sites.channel("bath-pressure", Unit.MILLIBAR, Duration.ofSeconds(3));
+    private final ModbusTestDevice device = new ModbusTestDevice(3).holding(100, 425).holding(200, 1013);
+    private final ScriptedTransport transport = new ScriptedTransport(device, OptionalInt.of(115200));
+
+    @Test
+    void eachChannelIsPolledOnItsOwnPeriod() {
+        BusPoller poller = modbusPoller();
+
+        for (int second = 0; second <= 6; second++) {
+            poller.runDue();
+            time.advance(Duration.ofSeconds(1));
+        }
+
+        assertThat(readings.stream().filter(r -> r.channel().equals("he-level")).count()).isEqualTo(7);
+        assertThat(readings.stream().filter(r -> r.channel().equals("bath-pressure")).count()).isEqualTo(3);
+        assertThat(readings).allMatch(r -> r.quality() == Quality.GOOD);
+        assertThat(readings.get(0).value()).isCloseTo(42.5, org.assertj.core.api.Assertions.within(1e-9)); // 425 * 0.1
+        assertThat(readings.get(0).timestamp()).isEqualTo(Instant.parse("2026-01-10T22:00:00Z"));
+    }
+
+    @Test
+    void runDueReturnsWhenTheNextChannelIsDue() {
+        BusPoller poller = modbusPoller();
+
+        long next = poller.runDue();
+
+        assertThat(next - time.monotonicNanos()).isEqualTo(Duration.ofSeconds(1).toNanos());
+    }
+
+    @Test
+    void lostTransportMakesChannelsStaleWithTheReasonAndIsReopenedWithBackoff() {
+        BusPoller poller = modbusPoller();
+        poller.runDue();
+        readings.clear();
+        transport.unplug("serial port /dev/ttyUSB3 stopped working (unplugged? read error 5)");
+        transport.refuseReopen("serial port /dev/ttyUSB3 does not exist; check the path and that the adapter is plugged in");
+
+        time.advance(Duration.ofSeconds(1));
+        poller.runDue();
+
+        assertThat(readings).singleElement().satisfies(r -> {
+            assertThat(r.quality()).isEqualTo(Quality.STALE);
+            assertThat(r.reason()).isEqualTo("bus 'cryostat-hall' down: serial port /dev/ttyUSB3 stopped working "
+                    + "(unplugged? read error 5)");
+        });
+        readings.clear();
+        int reopensBefore = transport.reopens();
+        // Reopen attempts: at once, then after 1 s, 2 s, 4 s (Backoff.DEFAULT doubling from 1 s).
+        List<Long> attemptSeconds = new ArrayList<>();
+        for (int second = 1; second <= 8; second++) {
+            time.advance(Duration.ofSeconds(1));
+            int before = transport.reopens();
+            poller.runDue();
+            if (transport.reopens() > before) {
+                attemptSeconds.add((long) second);
+            }
+        }
+        assertThat(transport.reopens() - reopensBefore).isEqualTo(4);
+        assertThat(attemptSeconds).containsExactly(1L, 2L, 4L, 8L);
+        assertThat(readings).allMatch(r -> r.quality() == Quality.STALE);
+        assertThat(readings.get(readings.size() - 1).reason()).startsWith("bus 'cryostat-hall' down: serial port "
+                + "/dev/ttyUSB3 does not exist; check the path and that the adapter is plugged in; next reopen attempt in");
+
+        transport.allowReopen();
+        readings.clear();
+        time.advance(Duration.ofSeconds(8));
+        poller.runDue();
+
+        assertThat(readings).isNotEmpty().allMatch(r -> r.quality() == Quality.GOOD);
+        assertThat(poller.counters()).containsEntry("transport_failures", 1L).containsEntry("reopen_failures", 4L);
+    }
+
+    @Test
+    void driverThatThrowsGivesBadReadingsAndThePollerCarriesOn() {
+        InstrumentDriver broken = new FakeDriver() {
+            @Override
+            public List<Reading> poll(List<String> channels, Transport t) {
+                throw new IllegalStateException("bug in plugin");
+            }
+        };
+        BusPoller poller = new BusPoller("b", transport, List.of(new PolledInstrument(broken, List.of(fast),
+                List.of())), time, readings::add, Backoff.DEFAULT);
+
+        poller.runDue();
+        time.advance(Duration.ofSeconds(1));
+        poller.runDue();
+
+        assertThat(readings).hasSize(2).allSatisfy(r -> {
+            assertThat(r.quality()).isEqualTo(Quality.BAD);
+            assertThat(r.reason()).isEqualTo("driver of instrument 'fake' failed: java.lang.IllegalStateException: "
+                    + "bug in plugin");
+        });
+        assertThat(poller.counters()).containsEntry("driver_errors", 2L);
+    }
+
+    @Test
+    void channelTheDriverForgotIsReportedBad() {
+        InstrumentDriver forgetful = new FakeDriver() {
+            @Override
+            public List<Reading> poll(List<String> channels, Transport t) {
+                return List.of();
+            }
+        };
+        BusPoller poller = new BusPoller("b", transport, List.of(new PolledInstrument(forgetful, List.of(fast),
+                List.of())), time, readings::add, Backoff.DEFAULT);
+
+        poller.runDue();
+
+        assertThat(readings).singleElement().extracting(Reading::reason)
+                .isEqualTo("driver of instrument 'fake' returned no reading");
+    }
+
+    @Test
+    void failingSinkIsCountedAndTheOtherReadingsStillArrive() {
+        BusPoller poller = new BusPoller("b", transport, List.of(modbusInstrument()), time, reading -> {
+            if (reading.channel().equals("he-level")) {
+                throw new IllegalStateException("queue full");
+            }
+            readings.add(reading);
+        }, Backoff.DEFAULT);
+
+        poller.runDue();
+
+        assertThat(readings).extracting(Reading::channel).containsExactly("bath-pressure");
+        assertThat(poller.counters()).containsEntry("sink_errors", 1L);
+    }
+
+    @Test
+    void queuedWriteRunsOnTheNextRoundWithReadback() throws Exception {
+        BusPoller poller = modbusPoller();
+
+        var result = poller.write("vent-valve", 1);
+        poller.runDue();
+
+        assertThat(result.get()).isEqualTo(WriteResult.confirmed("vent-valve", 1, java.util.OptionalDouble.of(1)));
+        assertThat(device.coilValue(5)).isEqualTo(1);
+        assertThat(poller.write("no-such-output", 1).get().reason())
+                .isEqualTo("no instrument on bus 'cryostat-hall' drives output 'no-such-output'");
+    }
+
+    private BusPoller modbusPoller() {
+        return new BusPoller("cryostat-hall", transport, List.of(modbusInstrument()), time, readings::add,
+                Backoff.DEFAULT);
+    }
+
+    private PolledInstrument modbusInstrument() {
+        InstrumentDef instrument = Sites.instrument("level-meter", "modbus-rtu", Sites.mapping("unit", "3", "timeout", "200ms"),
+                Sites.point("he-level", Sites.mapping("table", "holding", "address", "100", "scale", "0.1")),
+                Sites.point("bath-pressure", Sites.mapping("table", "holding", "address", "200")),
+                Sites.outputPoint("vent-valve", Sites.mapping("table", "coil", "address", "5")));
+        DriverContext context = Sites.context(time, List.of(fast, slow), List.of(Sites.output("vent-valve")));
+        ModbusRtuDriverFactory factory = new ModbusRtuDriverFactory();
+        assertThat(factory.validate(instrument, context)).isEmpty();
+        return new PolledInstrument(factory.create(instrument, context), List.of(fast, slow), List.of("vent-valve"));
+    }
+
+    private static class FakeDriver implements InstrumentDriver {
+        @Override
+        public String instrumentId() {
+            return "fake";
+        }
+
+        @Override
+        public Optional<String> connect(Transport transport) {
+            return Optional.empty();
+        }
+
+        @Override
+        public List<Reading> poll(List<String> channels, Transport transport) throws IOException {
+            return List.of();
+        }
+
+        @Override
+        public WriteResult write(String output, double value, Transport transport) {
+            return WriteResult.failed(output, value, "no outputs");
+        }
+
+        @Override
+        public Map<String, Long> counters() {
+            return Map.of();
+        }
+    }
+}

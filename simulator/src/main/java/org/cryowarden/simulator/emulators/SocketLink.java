@@ -1,0 +1,100 @@
+package org.cryowarden.simulator.emulators;
+
+import java.io.IOException;
+import java.io.InputStream;
+import java.io.OutputStream;
+import java.net.Socket;
+import java.net.SocketTimeoutException;
+import java.time.Duration;
+import java.util.OptionalInt;
+import java.util.concurrent.locks.LockSupport;
+import org.cryowarden.drivers.spi.Transport;
+
+/**
+ * The instrument's end of one TCP connection, as a drivers {@link Transport} so the drivers' RTU frame reader can
+ * cut requests out of it. Writes can be paced at a line speed: one character every {@code bits / baud} seconds,
+ * so a master sees the timing of a real serial line.
+ */
+final class SocketLink implements Transport {
+
+    private final Socket socket;
+    private final InputStream in;
+    private final OutputStream out;
+    private final long nanosPerByte;
+
+    SocketLink(Socket socket, int baud, int bitsPerByte, boolean pace) throws IOException {
+        this.socket = socket;
+        socket.setTcpNoDelay(true);
+        this.in = socket.getInputStream();
+        this.out = socket.getOutputStream();
+        this.nanosPerByte = pace && baud > 0 ? bitsPerByte * 1_000_000_000L / baud : 0;
+    }
+
+    @Override
+    public String describe() {
+        return "tcp " + socket.getRemoteSocketAddress();
+    }
+
+    @Override
+    public synchronized void write(byte[] bytes) throws IOException {
+        if (nanosPerByte == 0) {
+            out.write(bytes);
+            out.flush();
+            return;
+        }
+        long due = System.nanoTime();
+        for (byte b : bytes) {
+            out.write(b);
+            out.flush();
+            due += nanosPerByte;
+            long wait;
+            while ((wait = due - System.nanoTime()) > 0) {
+                LockSupport.parkNanos(wait);
+            }
+        }
+    }
+
+    @Override
+    public int read(byte[] buffer, int offset, int length, Duration timeout) throws IOException {
+        socket.setSoTimeout((int) Math.max(1, Math.min(Integer.MAX_VALUE, timeout.toMillis())));
+        try {
+            int count = in.read(buffer, offset, length);
+            if (count < 0) {
+                throw new IOException("peer closed the connection");
+            }
+            return count;
+        } catch (SocketTimeoutException e) {
+            return 0;
+        }
+    }
+
+    @Override
+    public int drainInput() throws IOException {
+        int available = in.available();
+        return available > 0 ? (int) in.skip(available) : 0;
+    }
+
+    @Override
+    public boolean isOpen() {
+        return !socket.isClosed();
+    }
+
+    @Override
+    public void reopen() throws IOException {
+        throw new IOException("an instrument does not reopen its connection; the master does");
+    }
+
+    @Override
+    public OptionalInt baudRate() {
+        return OptionalInt.empty();
+    }
+
+    @Override
+    public void close() {
+        try {
+            socket.close();
+        } catch (IOException e) {
+            // closing anyway
+        }
+    }
+}
