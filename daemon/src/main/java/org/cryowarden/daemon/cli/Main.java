@@ -34,6 +34,7 @@ public final class Main implements Runnable {
         line.addSubcommand(CalcCommand.commandLine());
         line.setExecutionExceptionHandler(new InternalFailureHandler());
         line.addSubcommand(new CheckCommand());
+        line.addSubcommand(new RunCommand());
         return line;
     }
 
