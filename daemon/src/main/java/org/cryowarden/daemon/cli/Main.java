@@ -35,6 +35,9 @@ public final class Main implements Runnable {
         line.setExecutionExceptionHandler(new InternalFailureHandler());
         line.addSubcommand(new CheckCommand());
         line.addSubcommand(new RunCommand());
+        line.addSubcommand(new ProbeCommand());
+        line.addSubcommand(new PluginsCommand());
+        line.addSubcommand(new SimulateCommand());
         return line;
     }
 

@@ -56,7 +56,7 @@ public final class DriverCatalog {
     public static DriverCatalog discover(ClassLoader classLoader, Optional<Path> pluginFolder) {
         List<LoadedDriver> drivers = new ArrayList<>();
         List<LoadFailure> failures = new ArrayList<>();
-        load(ServiceLoader.load(DriverFactory.class, classLoader), null, drivers, failures);
+        load(ServiceLoader.load(DriverFactory.class, classLoader), null, "", drivers, failures);
         if (pluginFolder.isPresent() && Files.isDirectory(pluginFolder.get())) {
             for (Path jar : jars(pluginFolder.get(), failures)) {
                 loadJar(jar, classLoader, drivers, failures);
@@ -116,12 +116,15 @@ public final class DriverCatalog {
         }
         // Kept open for the life of the program: the plugin's classes load lazily from it.
         URLClassLoader loader = new URLClassLoader("plugin " + jar.getFileName(), new URL[] {url}, parent);
-        load(ServiceLoader.load(DriverFactory.class, loader), loader, drivers, failures);
+        load(ServiceLoader.load(DriverFactory.class, loader), loader, " (" + jar + ")", drivers, failures);
     }
 
-    /** @param only when not null, keep only providers defined by this loader (not the parent's again) */
-    private static void load(ServiceLoader<DriverFactory> loader, ClassLoader only, List<LoadedDriver> drivers,
-            List<LoadFailure> failures) {
+    /**
+     * @param only   when not null, keep only providers defined by this loader (not the parent's again)
+     * @param origin appended to failure names: " (/path/plugin.jar)", or empty for the class path
+     */
+    private static void load(ServiceLoader<DriverFactory> loader, ClassLoader only, String origin,
+            List<LoadedDriver> drivers, List<LoadFailure> failures) {
         Iterator<DriverFactory> providers = loader.iterator();
         while (true) {
             DriverFactory factory;
@@ -132,7 +135,7 @@ public final class DriverCatalog {
                 factory = providers.next();
             } catch (ServiceConfigurationError | LinkageError e) {
                 String message = e.getMessage() == null ? e.toString() : e.getMessage();
-                failures.add(new LoadFailure(providerName(message), message
+                failures.add(new LoadFailure(providerName(message) + origin, message
                         + (e.getCause() != null ? " (" + e.getCause() + ")" : "")));
                 LOG.warn("driver plugin failed to load: {}", message);
                 continue;

@@ -52,7 +52,7 @@ public final class BusPoller implements AutoCloseable {
     private final ReentrantLock wakeLock = new ReentrantLock();
     private final Condition wake = wakeLock.newCondition();
 
-    private boolean transportUp;
+    private volatile boolean transportUp;
     private long nextReopenAt;
     private int failedReopens;
     private String downReason = "not opened yet";

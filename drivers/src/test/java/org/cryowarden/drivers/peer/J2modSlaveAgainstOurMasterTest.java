@@ -58,11 +58,13 @@ class J2modSlaveAgainstOurMasterTest {
         if (transport != null) {
             transport.close();
         }
-        if (slave != null) {
-            ModbusSlaveFactory.close(slave);
-        }
+        // Pull the line away first: j2mod's serial listener then stops at once instead of after its read
+        // timeouts (closing it on a live line took about 3.7 s here).
         if (line != null) {
             line.close();
+        }
+        if (slave != null) {
+            ModbusSlaveFactory.close(slave);
         }
     }
 

@@ -48,7 +48,7 @@ class DriverCatalogTest {
 
     @Test
     void brokenPluginIsReportedByNameAndTheOthersStillLoad() throws Exception {
-        pluginJar("broken.jar", "demo.Missing\ndemo.ThrowingFactory\ndemo.GoodFactory",
+        Path jar = pluginJar("broken.jar", "demo.Missing\ndemo.ThrowingFactory\ndemo.GoodFactory",
                 factorySource("demo", "ThrowingFactory", "never", "throw"),
                 factorySource("demo", "GoodFactory", "level-probe", "constructor-ok"));
 
@@ -56,7 +56,7 @@ class DriverCatalogTest {
 
         assertThat(catalog.ids()).contains("level-probe");
         assertThat(catalog.failures()).extracting(DriverCatalog.LoadFailure::name)
-                .containsExactly("demo.Missing", "demo.ThrowingFactory");
+                .containsExactly("demo.Missing (" + jar + ")", "demo.ThrowingFactory (" + jar + ")");
         assertThat(catalog.failures().get(0).reason()).contains("demo.Missing not found");
         assertThat(catalog.failures().get(1).reason()).contains("could not be instantiated");
     }

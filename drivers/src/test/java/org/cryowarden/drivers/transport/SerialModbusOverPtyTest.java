@@ -89,6 +89,8 @@ class SerialModbusOverPtyTest {
                 assertThat(back.value()).isCloseTo(77.3, within(1e-9));
                 assertThat(poller.counters()).containsKey("transport_failures");
                 assertThat(poller.counters().get("reopen_attempts")).isGreaterThanOrEqualTo(2L);
+                // One reader thread for the driver's port and one for the test device's: none left from before.
+                assertThat(TcpScpiReconnectTest.awaitReaderThreads("serial-reader", 2)).isEqualTo(2);
             }
         }
     }
