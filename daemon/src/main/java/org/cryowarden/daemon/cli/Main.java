@@ -35,6 +35,8 @@ public final class Main implements Runnable {
         line.setExecutionExceptionHandler(new InternalFailureHandler());
         line.addSubcommand(new CheckCommand());
         line.addSubcommand(new RunCommand());
+        line.addSubcommand(new DemoCommand());
+        line.addSubcommand(new picocli.AutoComplete.GenerateCompletion());
         line.addSubcommand(new ProbeCommand());
         line.addSubcommand(new PluginsCommand());
         line.addSubcommand(new SimulateCommand());

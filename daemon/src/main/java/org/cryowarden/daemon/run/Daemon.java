@@ -97,7 +97,7 @@ public final class Daemon implements AutoCloseable {
     private final MqttBridge bridge;
     private final OutputWriter outputs;
     private final PrometheusMeterRegistry metrics = new PrometheusMeterRegistry(PrometheusConfig.DEFAULT);
-    private final List<JournalSink.Listener> listeners = new CopyOnWriteArrayList<>();
+    private final List<java.util.function.Consumer<Recorded>> listeners = new CopyOnWriteArrayList<>();
     private final Instant started;
     private volatile Configuration configuration;
     private volatile List<BusPoller> pollers;
@@ -153,7 +153,10 @@ public final class Daemon implements AutoCloseable {
                 new ReportByException(settings.deadbands(), settings.maxInterval()), loop::command);
         bridgeRef.bridge = bridge;
         journalSink.addListener(bridge);
-        journalSink.addListener(committed -> listeners.forEach(l -> l.committed(committed)));
+        journalSink.addListener(committed -> {
+            Recorded recorded = new Recorded(committed.batch().events(), committed.seqs(), committed.batch().alarms());
+            listeners.forEach(l -> l.accept(recorded));
+        });
         restore();
         this.pollers = SiteSetup.pollers(configuration.site(), catalog, time, loop::offer, options.backoff());
         outputs.owners(owners(pollers, configuration));
@@ -273,11 +276,15 @@ public final class Daemon implements AutoCloseable {
         return next;
     }
 
-    /** Waits (bounded) until the journal and output queues are empty: the demo's pause between steps. */
+    /**
+     * Waits (bounded) until the journal has recorded everything queued (and, with threads, the engine took
+     * everything): the demo's pause between steps. Output writes are not waited for: in driven mode they run at
+     * the next {@link #step()}.
+     */
     public boolean awaitQuiet(Duration bound) throws InterruptedException {
         long deadline = System.nanoTime() + bound.toNanos();
         while (System.nanoTime() < deadline) {
-            if (journalSink.idle() && outputs.idle() && (options.mode() == Mode.DRIVEN || loop.idle())) {
+            if (journalSink.idle() && (options.mode() == Mode.DRIVEN || (loop.idle() && outputs.idle()))) {
                 return true;
             }
             Thread.sleep(1);
@@ -287,7 +294,8 @@ public final class Daemon implements AutoCloseable {
 
     // ---- views and commands -------------------------------------------------------------------------------------
 
-    public void addListener(JournalSink.Listener listener) {
+    /** Told on the journal thread after each batch of events was recorded; must return quickly. */
+    public void addListener(java.util.function.Consumer<Recorded> listener) {
         listeners.add(listener);
     }
 
