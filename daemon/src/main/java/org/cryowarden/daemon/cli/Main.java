@@ -36,6 +36,7 @@ public final class Main implements Runnable {
         line.addSubcommand(new CheckCommand());
         line.addSubcommand(new RunCommand());
         line.addSubcommand(new DemoCommand());
+        ClientCommands.all().forEach(line::addSubcommand);
         line.addSubcommand(new picocli.AutoComplete.GenerateCompletion());
         line.addSubcommand(new ProbeCommand());
         line.addSubcommand(new PluginsCommand());
