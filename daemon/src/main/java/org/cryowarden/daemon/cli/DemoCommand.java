@@ -68,6 +68,11 @@ final class DemoCommand implements Callable<Integer> {
             err.flush();
             return CheckCommand.INVALID;
         }
+        if (mqttPort != null && (mqttPort < 1 || mqttPort > 65535)) {
+            err.println("--mqtt-port must be between 1 and 65535, got " + mqttPort);
+            err.flush();
+            return CheckCommand.INVALID;
+        }
         if (broker != null && !broker.matches("tcp://[^:/]+:\\d{1,5}")) {
             err.println("--broker must look like tcp://HOST:PORT, got " + broker);
             err.flush();
