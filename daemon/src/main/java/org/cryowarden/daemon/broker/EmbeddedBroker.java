@@ -112,6 +112,11 @@ public final class EmbeddedBroker implements AutoCloseable {
         return "tcp://" + BIND_ADDRESS + ":" + port;
     }
 
+    /** The temporary folder the broker works in (deleted by {@link #stop}). */
+    Path folder() {
+        return folder;
+    }
+
     /** How long {@link #start} took from building the broker to an open listener. */
     public Duration startDuration() {
         return startDuration;

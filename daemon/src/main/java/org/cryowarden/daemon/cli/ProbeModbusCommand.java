@@ -85,9 +85,9 @@ final class ProbeModbusCommand implements Callable<Integer> {
             report.sent(exchange.last().sent());
             report.received(exchange.last().received().bytes());
             report.json().put("request", request.describe());
-            report.roundTrip(exchange.last().roundTrip());
             ModbusReply reply = exchange.reply();
             if (!reply.isOk()) {
+                report.roundTrip(exchange.last().roundTrip());
                 return fail(report, reply.reason());
             }
             if (reply instanceof ModbusReply.Values values) {
@@ -106,6 +106,7 @@ final class ProbeModbusCommand implements Callable<Integer> {
                 report.json().put("written", true);
                 report.line(request.describe() + ": confirmed");
             }
+            report.roundTrip(exchange.last().roundTrip());
             report.finish();
             return 0;
         }

@@ -62,6 +62,39 @@ class EmbeddedBrokerTest {
         }
     }
 
+    @Test
+    void firstFreePortChoiceSkipsATakenPort() throws Exception {
+        try (ServerSocket holder = new ServerSocket()) {
+            holder.bind(new InetSocketAddress(InetAddress.getByName("127.0.0.1"), 0));
+            int taken = holder.getLocalPort();
+            try (EmbeddedBroker broker = EmbeddedBroker.start(PortChoice.firstFreeFrom(taken), START_TIMEOUT)) {
+                assertThat(broker.port()).isGreaterThan(taken);
+                assertThat(broker.serverUri()).isEqualTo("tcp://127.0.0.1:" + broker.port());
+            }
+        }
+    }
+
+    @Test
+    void stoppedBrokerFreesItsPortAndDeletesItsFolder() throws Exception {
+        EmbeddedBroker broker = EmbeddedBroker.start(PortChoice.firstFreeFrom(freePort()), START_TIMEOUT);
+        java.nio.file.Path folder = broker.folder();
+        assertThat(folder.resolve("config").resolve("config.xml")).exists();
+
+        long start = System.nanoTime();
+        assertThat(broker.stop(Duration.ofSeconds(30))).isTrue();
+        System.out.println("broker stop took " + TimeUnit.NANOSECONDS.toMillis(System.nanoTime() - start) + " ms");
+
+        assertThat(folder).doesNotExist();
+        assertThat(LocalPorts.isFree(InetAddress.getByName("127.0.0.1"), broker.port())).isTrue();
+    }
+
+    @Test
+    void portOutsideTheTcpRangeIsRefused() {
+        assertThatThrownBy(() -> PortChoice.exactly(70000))
+                .isInstanceOf(IllegalArgumentException.class)
+                .hasMessage("broker port must be between 1 and 65535, got 70000");
+    }
+
     private static int freePort() throws IOException {
         try (ServerSocket socket = new ServerSocket(0)) {
             return socket.getLocalPort();
