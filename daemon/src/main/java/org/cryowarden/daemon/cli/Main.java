@@ -34,6 +34,10 @@ public final class Main implements Runnable {
         line.addSubcommand(CalcCommand.commandLine());
         line.setExecutionExceptionHandler(new InternalFailureHandler());
         line.addSubcommand(new CheckCommand());
+        line.addSubcommand(new RunCommand());
+        line.addSubcommand(new DemoCommand());
+        ClientCommands.all().forEach(line::addSubcommand);
+        line.addSubcommand(new picocli.AutoComplete.GenerateCompletion());
         line.addSubcommand(new ProbeCommand());
         line.addSubcommand(new PluginsCommand());
         line.addSubcommand(new SimulateCommand());

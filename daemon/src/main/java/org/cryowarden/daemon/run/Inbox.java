@@ -1,0 +1,122 @@
+package org.cryowarden.daemon.run;
+
+import java.util.ArrayDeque;
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.concurrent.TimeUnit;
+import java.util.concurrent.locks.Condition;
+import java.util.concurrent.locks.ReentrantLock;
+import org.cryowarden.rules.Reading;
+
+/**
+ * The engine thread's input. Readings are bounded by the number of channels: a reading of a channel that still
+ * has one waiting replaces it (the newest value is the one that matters) and counts as a drop. Tasks (operator
+ * commands, reloads, output results) queue in order and are never dropped. Any thread may offer; one thread takes.
+ */
+final class Inbox {
+
+    private final ReentrantLock lock = new ReentrantLock();
+    private final Condition ready = lock.newCondition();
+    private final LinkedHashMap<String, Reading> readings = new LinkedHashMap<>();
+    private final ArrayDeque<Runnable> tasks = new ArrayDeque<>();
+    private long drops;
+    private long offered;
+
+    void offer(Reading reading) {
+        lock.lock();
+        try {
+            offered++;
+            if (readings.put(reading.channel(), reading) != null) {
+                drops++;
+            }
+            ready.signal();
+        } finally {
+            lock.unlock();
+        }
+    }
+
+    void submit(Runnable task) {
+        lock.lock();
+        try {
+            tasks.add(task);
+            ready.signal();
+        } finally {
+            lock.unlock();
+        }
+    }
+
+    /** What is waiting, tasks first; waits at most {@code nanos} when nothing is. */
+    Work take(long nanos) throws InterruptedException {
+        lock.lock();
+        try {
+            long wait = nanos;
+            while (readings.isEmpty() && tasks.isEmpty() && wait > 0) {
+                wait = ready.awaitNanos(wait);
+            }
+            List<Runnable> taken = new ArrayList<>(tasks);
+            tasks.clear();
+            List<Reading> values = new ArrayList<>(readings.values());
+            readings.clear();
+            return new Work(taken, values);
+        } finally {
+            lock.unlock();
+        }
+    }
+
+    void wake() {
+        lock.lock();
+        try {
+            ready.signalAll();
+        } finally {
+            lock.unlock();
+        }
+    }
+
+    int depth() {
+        lock.lock();
+        try {
+            return readings.size() + tasks.size();
+        } finally {
+            lock.unlock();
+        }
+    }
+
+    long drops() {
+        lock.lock();
+        try {
+            return drops;
+        } finally {
+            lock.unlock();
+        }
+    }
+
+    long offered() {
+        lock.lock();
+        try {
+            return offered;
+        } finally {
+            lock.unlock();
+        }
+    }
+
+    record Work(List<Runnable> tasks, List<Reading> readings) {
+        boolean isEmpty() {
+            return tasks.isEmpty() && readings.isEmpty();
+        }
+    }
+
+    static long millis(long ms) {
+        return TimeUnit.MILLISECONDS.toNanos(ms);
+    }
+
+    Map<String, Reading> peek() {
+        lock.lock();
+        try {
+            return Map.copyOf(readings);
+        } finally {
+            lock.unlock();
+        }
+    }
+}

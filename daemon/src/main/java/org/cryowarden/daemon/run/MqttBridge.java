@@ -1,0 +1,364 @@
+package org.cryowarden.daemon.run;
+
+import com.fasterxml.jackson.databind.node.ObjectNode;
+import java.nio.charset.StandardCharsets;
+import java.time.Duration;
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.Optional;
+import java.util.concurrent.CompletableFuture;
+import java.util.concurrent.ExecutionException;
+import java.util.concurrent.TimeUnit;
+import java.util.concurrent.TimeoutException;
+import java.util.concurrent.atomic.AtomicLong;
+import java.util.concurrent.locks.Condition;
+import java.util.concurrent.locks.ReentrantLock;
+import java.util.function.Function;
+import org.cryowarden.daemon.journal.Journal;
+import org.cryowarden.daemon.journal.JournalException;
+import org.cryowarden.daemon.journal.OutboxEntry;
+import org.cryowarden.daemon.mqtt.ConnectionListener;
+import org.cryowarden.daemon.mqtt.IncomingMessage;
+import org.cryowarden.daemon.mqtt.MqttLink;
+import org.cryowarden.daemon.mqtt.OutgoingMessage;
+import org.cryowarden.daemon.mqtt.PublishResult;
+import org.cryowarden.rules.Reading;
+import org.cryowarden.rules.TimeSource;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
+
+/**
+ * Everything the daemon says and hears on MQTT, under one topic prefix:
+ * <ul>
+ *   <li>{@code reading/<channel>} retained, QoS 0, report by exception ({@link ReportByException}), on the
+ *       reading thread, which also feeds the journal's minute aggregates;</li>
+ *   <li>{@code alarm/<alarm>} retained QoS 1 and {@code summary} retained QoS 1, published once the journal
+ *       recorded the change;</li>
+ *   <li>{@code event} QoS 1 from the journal's outbox, one at a time in sequence order, each marked delivered
+ *       after its PUBACK, so a broker outage delays events but never loses or reorders them;</li>
+ *   <li>{@code command/<verb>} requests, answered on their MQTT 5 Response Topic with the Correlation Data.</li>
+ * </ul>
+ * After every (re)connect the current readings, alarms and summary are published again.
+ */
+final class MqttBridge implements JournalSink.Listener, AutoCloseable {
+
+    static final String OUTBOX_SINK = "mqtt";
+
+    private static final Logger LOG = LoggerFactory.getLogger(MqttBridge.class);
+    private static final Duration PUBLISH_TIMEOUT = Duration.ofSeconds(30);
+
+    private final MqttLink link;
+    private final String prefix;
+    private final Journal journal;
+    private final TimeSource time;
+    private final ReportByException rbe;
+    private final Function<OperatorCommand, CompletableFuture<Optional<String>>> commands;
+
+    private final ReentrantLock lock = new ReentrantLock();
+    private final Condition wake = lock.newCondition();
+    private final LinkedHashMap<String, Reading> pendingReadings = new LinkedHashMap<>();
+    private final Map<String, Reading> latestReadings = new LinkedHashMap<>();
+    private boolean republishReadings;
+    private boolean outboxKick = true;
+
+    private final Object alarmLock = new Object();
+    private final Map<String, String> alarmDocuments = new LinkedHashMap<>();
+    private String summaryDocument;
+
+    private final AtomicLong readingsPublished = new AtomicLong();
+    private final AtomicLong eventsPublished = new AtomicLong();
+    private final AtomicLong commandsRefused = new AtomicLong();
+    private final AtomicLong aggregateFailures = new AtomicLong();
+    private volatile long outboxDepth;
+    private volatile boolean running;
+    private final List<Thread> threads = new ArrayList<>();
+
+    MqttBridge(MqttLink link, String prefix, Journal journal, TimeSource time, ReportByException rbe,
+            Function<OperatorCommand, CompletableFuture<Optional<String>>> commands) {
+        this.link = link;
+        this.prefix = prefix;
+        this.journal = journal;
+        this.time = time;
+        this.rbe = rbe;
+        this.commands = commands;
+    }
+
+    String prefix() {
+        return prefix;
+    }
+
+    void start() {
+        running = true;
+        link.addConnectionListener(new ConnectionListener() {
+            @Override
+            public void connected(boolean reconnect) {
+                LOG.info("MQTT connected{}; publishing the current state under {}/", reconnect ? " again" : "", prefix);
+                republishAlarms();
+                lock.lock();
+                try {
+                    republishReadings = true;
+                    outboxKick = true;
+                    wake.signalAll();
+                } finally {
+                    lock.unlock();
+                }
+            }
+
+            @Override
+            public void lost(String reason) {
+                LOG.warn("MQTT connection lost ({}); polling and evaluating go on, events wait in the journal", reason);
+            }
+        });
+        link.subscribe(prefix + "/command/+", 1, this::onCommand);
+        link.start();
+        threads.add(thread("mqtt readings", this::readingLoop));
+        threads.add(thread("mqtt events", this::eventLoop));
+    }
+
+    /** From the engine thread: the newest reading of a channel; never blocks. */
+    void offerReading(Reading reading) {
+        lock.lock();
+        try {
+            pendingReadings.put(reading.channel(), reading);
+            wake.signalAll();
+        } finally {
+            lock.unlock();
+        }
+    }
+
+    @Override
+    public void committed(JournalSink.Committed committed) {
+        EventBatch batch = committed.batch();
+        synchronized (alarmLock) {
+            for (Map.Entry<String, ObjectNode> alarm : batch.alarms().entrySet()) {
+                String text = Payloads.text(alarm.getValue());
+                alarmDocuments.put(alarm.getKey(), text);
+                if (link.isConnected()) {
+                    link.publish(OutgoingMessage.atLeastOnce(prefix + "/alarm/" + alarm.getKey(), text, true));
+                }
+            }
+            String summary = Payloads.text(batch.summary());
+            boolean changed = !summary.equals(summaryDocument);
+            summaryDocument = summary;
+            if (changed && link.isConnected() && !batch.alarms().isEmpty()) {
+                link.publish(OutgoingMessage.atLeastOnce(prefix + "/summary", summary, true));
+            }
+        }
+        if (!batch.events().isEmpty()) {
+            lock.lock();
+            try {
+                outboxKick = true;
+                wake.signalAll();
+            } finally {
+                lock.unlock();
+            }
+        }
+    }
+
+    long readingsPublished() {
+        return readingsPublished.get();
+    }
+
+    long eventsPublished() {
+        return eventsPublished.get();
+    }
+
+    long commandsRefused() {
+        return commandsRefused.get();
+    }
+
+    long outboxDepth() {
+        return outboxDepth;
+    }
+
+    boolean connected() {
+        return link.isConnected();
+    }
+
+    /** Stops the threads and closes the link, publishing {@code offline} with the reason as the status. */
+    void close(byte[] offline) {
+        running = false;
+        lock.lock();
+        try {
+            wake.signalAll();
+        } finally {
+            lock.unlock();
+        }
+        for (Thread thread : threads) {
+            try {
+                thread.join(5_000);
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+            }
+        }
+        link.close(offline, MqttLink.DEFAULT_CLOSE_TIMEOUT);
+    }
+
+    @Override
+    public void close() {
+        close("{\"state\":\"offline\",\"reason\":\"shutdown\"}".getBytes(StandardCharsets.UTF_8));
+    }
+
+    private void republishAlarms() {
+        synchronized (alarmLock) {
+            for (Map.Entry<String, String> alarm : alarmDocuments.entrySet()) {
+                link.publish(OutgoingMessage.atLeastOnce(prefix + "/alarm/" + alarm.getKey(), alarm.getValue(), true));
+            }
+            if (summaryDocument != null) {
+                link.publish(OutgoingMessage.atLeastOnce(prefix + "/summary", summaryDocument, true));
+            }
+        }
+    }
+
+    private void readingLoop() {
+        while (running) {
+            List<Reading> readings;
+            boolean everything;
+            lock.lock();
+            try {
+                if (pendingReadings.isEmpty() && !republishReadings) {
+                    wake.await(1, TimeUnit.SECONDS);
+                }
+                readings = new ArrayList<>(pendingReadings.values());
+                pendingReadings.clear();
+                everything = republishReadings;
+                republishReadings = false;
+            } catch (InterruptedException e) {
+                return;
+            } finally {
+                lock.unlock();
+            }
+            long now = time.monotonicNanos();
+            if (everything) {
+                rbe.reset();
+            }
+            for (Reading reading : readings) {
+                latestReadings.put(reading.channel(), reading);
+                try {
+                    journal.recordReading(reading);
+                } catch (JournalException e) {
+                    if (aggregateFailures.getAndIncrement() % 1000 == 0) {
+                        LOG.error("{}", e.getMessage());
+                    }
+                }
+            }
+            if (!link.isConnected()) {
+                continue;
+            }
+            List<Reading> toSend = new ArrayList<>();
+            if (everything) {
+                toSend.addAll(latestReadings.values());
+            } else {
+                toSend.addAll(readings);
+                for (String channel : rbe.overdue(now)) {
+                    Reading latest = latestReadings.get(channel);
+                    if (latest != null && !readings.contains(latest)) {
+                        toSend.add(latest);
+                    }
+                }
+            }
+            for (Reading reading : toSend) {
+                if (rbe.admit(reading, now)) {
+                    readingsPublished.incrementAndGet();
+                    link.publish(OutgoingMessage.atMostOnce(prefix + "/reading/" + reading.channel(),
+                            Payloads.text(Payloads.reading(reading)).getBytes(StandardCharsets.UTF_8), true));
+                }
+            }
+        }
+    }
+
+    private void eventLoop() {
+        while (running) {
+            lock.lock();
+            try {
+                if (!outboxKick) {
+                    wake.await(1, TimeUnit.SECONDS);
+                }
+                outboxKick = false;
+            } catch (InterruptedException e) {
+                return;
+            } finally {
+                lock.unlock();
+            }
+            try {
+                outboxDepth = journal.outboxDepth(OUTBOX_SINK);
+                if (link.isConnected()) {
+                    sendOutbox();
+                }
+            } catch (JournalException e) {
+                LOG.error("{}", e.getMessage());
+            }
+        }
+    }
+
+    /** Sends undelivered events oldest first, each after the previous one's PUBACK; stops at the first failure. */
+    private void sendOutbox() throws JournalException {
+        while (running && link.isConnected()) {
+            List<OutboxEntry> entries = journal.undelivered(OUTBOX_SINK, 256);
+            if (entries.isEmpty()) {
+                outboxDepth = 0;
+                return;
+            }
+            for (OutboxEntry entry : entries) {
+                PublishResult result;
+                try {
+                    result = link.publish(OutgoingMessage.atLeastOnce(entry.target(), entry.payload(), false))
+                            .get(PUBLISH_TIMEOUT.toMillis(), TimeUnit.MILLISECONDS);
+                } catch (InterruptedException e) {
+                    Thread.currentThread().interrupt();
+                    return;
+                } catch (ExecutionException | TimeoutException e) {
+                    result = new PublishResult.Failed(e.toString());
+                }
+                if (!result.isDelivered()) {
+                    journal.recordAttempt(entry.id(), time.wallNow());
+                    outboxDepth = journal.outboxDepth(OUTBOX_SINK);
+                    return;
+                }
+                journal.markDelivered(entry.id(), time.wallNow());
+                eventsPublished.incrementAndGet();
+            }
+            outboxDepth = journal.outboxDepth(OUTBOX_SINK);
+        }
+    }
+
+    private void onCommand(IncomingMessage message) {
+        String verb = message.topic().substring(message.topic().lastIndexOf('/') + 1);
+        if (message.retained()) {
+            LOG.warn("ignoring a retained message on {}: commands must not be retained", message.topic());
+            return;
+        }
+        OperatorCommand.Parsed parsed = OperatorCommand.parse(verb, message.payload());
+        if (parsed.error().isPresent()) {
+            refuse(message, verb, parsed.error().get());
+            return;
+        }
+        OperatorCommand command = parsed.command().orElseThrow();
+        commands.apply(command).whenComplete((refusal, failure) -> {
+            Optional<String> error = failure != null ? Optional.of("internal failure: " + failure) : refusal;
+            if (error.isPresent()) {
+                refuse(message, verb, error.get());
+            } else {
+                LOG.info("command {} {} by {} over MQTT done", verb, command.target(), command.operator());
+                link.reply(message, Payloads.text(Payloads.reply(Optional.empty())));
+            }
+        });
+    }
+
+    private void refuse(IncomingMessage message, String verb, String error) {
+        commandsRefused.incrementAndGet();
+        LOG.warn("command {} over MQTT refused: {}", verb, error);
+        if (message.responseTopic().isPresent()) {
+            link.reply(message, Payloads.text(Payloads.reply(Optional.of(error))));
+        }
+    }
+
+    private Thread thread(String name, Runnable body) {
+        Thread thread = new Thread(body, name);
+        thread.setDaemon(true);
+        thread.start();
+        return thread;
+    }
+}
