@@ -34,6 +34,7 @@ public final class BlockEncoder {
 
     private final String channel;
     private final Unit unit;
+    private final boolean xorOnly;
 
     private TimeResolution resolution = TimeResolution.SECOND;
     private int coding;
@@ -53,11 +54,26 @@ public final class BlockEncoder {
 
     /** An encoder for readings of {@code channel}, whose values are in {@code unit}. */
     public BlockEncoder(String channel, Unit unit) {
+        this(channel, unit, false);
+    }
+
+    private BlockEncoder(String channel, Unit unit, boolean xorOnly) {
         this.channel = Objects.requireNonNull(channel, "channel");
         this.unit = Objects.requireNonNull(unit, "unit");
         if (channel.isEmpty()) {
             throw new IllegalArgumentException("a history block needs a channel id");
         }
+        this.xorOnly = xorOnly;
+        this.coding = initialCoding();
+    }
+
+    /** An encoder that codes every value with Gorilla's XOR alone: the baseline the decimal coding is measured against. */
+    static BlockEncoder xorOnly(String channel, Unit unit) {
+        return new BlockEncoder(channel, unit, true);
+    }
+
+    private int initialCoding() {
+        return xorOnly ? BlockFormat.XOR_CODING : 0;
     }
 
     public String channel() {
@@ -132,7 +148,7 @@ public final class BlockEncoder {
         clear();
         runs.clear();
         resolution = TimeResolution.SECOND;
-        coding = 0;
+        coding = initialCoding();
         return block;
     }
 

@@ -86,7 +86,8 @@ final class Series {
     }
 
     static double quantize(double value, int decimals) {
-        return Double.parseDouble(String.format(java.util.Locale.ROOT, "%." + decimals + "f", value));
+        double scale = Math.pow(10, decimals);
+        return Math.round(value * scale) / scale;
     }
 
     static Reading good(String channel, double value, Unit unit, Instant at) {
