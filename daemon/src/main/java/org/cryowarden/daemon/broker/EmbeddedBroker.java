@@ -69,12 +69,19 @@ public final class EmbeddedBroker implements AutoCloseable {
         int port = choosePort(loopback, choice);
         Path folder = createFolder(port);
         long started = System.nanoTime();
-        EmbeddedHiveMQ hivemq = EmbeddedHiveMQ.builder()
-                .withConfigurationFolder(folder.resolve("config"))
-                .withDataFolder(folder.resolve("data"))
-                .withExtensionsFolder(folder.resolve("extensions"))
-                .withoutLoggingBootstrap()
-                .build();
+        EmbeddedHiveMQ hivemq;
+        try {
+            hivemq = EmbeddedHiveMQ.builder()
+                    .withConfigurationFolder(folder.resolve("config"))
+                    .withDataFolder(folder.resolve("data"))
+                    .withExtensionsFolder(folder.resolve("extensions"))
+                    .withoutLoggingBootstrap()
+                    .build();
+        } catch (RuntimeException | LinkageError e) {
+            deleteFolder(folder);
+            throw new BrokerStartException("the embedded MQTT broker cannot be built: " + describe(e)
+                    + " (a class missing from the runnable jar?); configure an external broker in the site file", e);
+        }
         try {
             hivemq.start().get(startTimeout.toMillis(), TimeUnit.MILLISECONDS);
         } catch (TimeoutException e) {

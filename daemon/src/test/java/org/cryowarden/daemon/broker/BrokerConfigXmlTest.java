@@ -34,6 +34,11 @@ class BrokerConfigXmlTest {
     }
 
     @Test
+    void configLetsASlowSubscriberFallFarBehindBeforeMessagesAreDiscarded() throws Exception {
+        assertThat(value("/hivemq/mqtt/queued-messages/max-queue-size")).isEqualTo("100000");
+    }
+
+    @Test
     void configHasOneListenerOnLoopbackAtTheChosenPort() throws Exception {
         assertThat(value("count(/hivemq/listeners/*)")).isEqualTo("1");
         assertThat(value("/hivemq/listeners/tcp-listener/bind-address")).isEqualTo("127.0.0.1");
