@@ -3,7 +3,9 @@ package org.cryowarden.rules.engine;
 import java.time.Instant;
 import java.time.LocalTime;
 import java.time.ZoneId;
+import java.time.ZoneOffset;
 import java.time.ZonedDateTime;
+import java.time.temporal.ChronoUnit;
 import java.time.format.DateTimeFormatter;
 import org.cryowarden.rules.Quality;
 import org.cryowarden.rules.Reading;
@@ -196,11 +198,11 @@ final class ForecastEvaluator extends RuleEvaluator {
         return candidate.toInstant();
     }
 
+    /** The crossing to the nearest minute, in the rule's zone (UTC when it has none): a forecast, not a stopwatch. */
     private String when(Instant crossing) {
-        if (zone == null) {
-            return crossing.toString();
-        }
-        return LOCAL.format(crossing.atZone(zone)) + " " + zone.getId();
+        Instant minute = crossing.plusSeconds(30).truncatedTo(ChronoUnit.MINUTES);
+        return zone == null ? LOCAL.format(minute.atZone(ZoneOffset.UTC)) + " UTC"
+                : LOCAL.format(minute.atZone(zone)) + " " + zone.getId();
     }
 
     private void fit() {
