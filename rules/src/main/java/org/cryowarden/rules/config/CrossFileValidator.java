@@ -139,7 +139,8 @@ final class CrossFileValidator {
             String field = rule instanceof VoteRule || rule instanceof DeviationRule ? "channels[" + i + "]" : "channel";
             SourcePosition at = sources.get(rule, field, rule.position());
             if (!knownChannel(channel)) {
-                problems.add(at, "unknown channel '" + channel + "' in rule '" + rule.id() + "'" + channelHint(channel));
+                problems.add(at, "unknown channel '" + channel + "' in rule '" + rule.id() + "'"
+                        + channelHint(channel));
                 continue;
             }
             Unit unit = published.containsKey(channel) ? Unit.HOUR : channelUnits.get(channel);
@@ -210,7 +211,8 @@ final class CrossFileValidator {
         }
         SourcePosition channelAt = sources.get(fill, "channel", fill.position());
         if (!knownChannel(fill.channel())) {
-            problems.add(channelAt, "unknown channel '" + fill.channel() + "' in " + what + channelHint(fill.channel()));
+            problems.add(channelAt, "unknown channel '" + fill.channel() + "' in " + what
+                    + channelHint(fill.channel()));
         } else {
             Unit unit = published.containsKey(fill.channel()) ? Unit.HOUR : channelUnits.get(fill.channel());
             if (unit != null) {

@@ -23,7 +23,8 @@ public record DewarGauge(double activeLengthMetres, double bottomOffsetMetres, V
     public double heightMetres(double percent) {
         RangeCheck.finite("level", percent);
         if (percent < 0 || percent > 100) {
-            throw new OutOfRangeException("level " + RangeCheck.format(percent) + " % is outside the probe's 0 to 100 %");
+            throw new OutOfRangeException("level " + RangeCheck.format(percent)
+                    + " % is outside the probe's 0 to 100 %");
         }
         return bottomOffsetMetres + percent / 100.0 * activeLengthMetres;
     }

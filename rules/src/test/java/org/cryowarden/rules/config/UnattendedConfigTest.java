@@ -57,6 +57,16 @@ class UnattendedConfigTest {
     }
 
     @Test
+    void exampleRulesBuildAnEngineWithTheirForecastChannel() throws ConfigException {
+        Configuration example = ConfigurationLoader.load(Path.of("../config-examples/harbour-hall-site.yaml"),
+                List.of(Path.of("../config-examples/harbour-hall-rules.yaml")), DriverSettingsValidator.acceptAll());
+        Engine engine = new Engine(EngineConfig.of(example.site(), example.rules()),
+                new VirtualTimeSource(java.time.Instant.parse("2025-01-15T18:00:00Z")));
+        assertThat(engine.forecastChannels()).containsExactly("he-dewar-1-hours-left");
+        assertThat(example.rules().flood()).isEqualTo(FloodDef.DEFAULT);
+    }
+
+    @Test
     void everyErrorOfTheNewKeysIsReportedWithItsPosition() {
         // What each file shows on its own; a rule or fill with such an error goes no further, as for the other
         // rule types.
