@@ -5,8 +5,6 @@ import java.util.ArrayList;
 import java.util.List;
 import java.util.Objects;
 import org.cryowarden.rules.ConfigException;
-import org.cryowarden.rules.model.InterlockDef;
-import org.cryowarden.rules.model.RuleDef;
 import org.cryowarden.rules.model.RuleSet;
 
 /**
@@ -42,14 +40,9 @@ public final class ConfigurationLoader {
             files.add(RuleSetLoader.read(file, problems));
         }
         CrossFileValidator.validate(siteFile, files, problems);
+        RuleSet merged = RuleSetLoader.merge(files, problems);
         problems.throwIfAny();
-        List<RuleDef> rules = new ArrayList<>();
-        List<InterlockDef> interlocks = new ArrayList<>();
-        for (RuleFile file : files) {
-            rules.addAll(file.rules());
-            interlocks.addAll(file.interlocks());
-        }
-        return new Configuration(siteFile.site().orElseThrow(), new RuleSet(rules, interlocks), site.toString(),
+        return new Configuration(siteFile.site().orElseThrow(), merged, site.toString(),
                 labels.subList(1, labels.size()));
     }
 }

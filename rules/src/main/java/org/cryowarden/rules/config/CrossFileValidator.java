@@ -12,9 +12,12 @@ import org.cryowarden.rules.Unit;
 import org.cryowarden.rules.model.ChannelDef;
 import org.cryowarden.rules.model.DerivedChannelDef;
 import org.cryowarden.rules.model.DeviationRule;
+import org.cryowarden.rules.model.FillDef;
+import org.cryowarden.rules.model.ForecastRule;
 import org.cryowarden.rules.model.Direction;
 import org.cryowarden.rules.model.InterlockDef;
 import org.cryowarden.rules.model.LimitRule;
+import org.cryowarden.rules.model.OutputAction;
 import org.cryowarden.rules.model.RateRule;
 import org.cryowarden.rules.model.RuleDef;
 import org.cryowarden.rules.model.SiteDef;
@@ -35,6 +38,10 @@ final class CrossFileValidator {
     private final Map<String, ChannelDef> measured = new LinkedHashMap<>();
     private final Map<String, SourcePosition> ruleIds = new LinkedHashMap<>();
     private final Map<String, SourcePosition> interlockIds = new LinkedHashMap<>();
+    private final Map<String, SourcePosition> fillIds = new LinkedHashMap<>();
+    /** Channels that forecast rules publish (unit h), known to every rule file. */
+    private final Map<String, SourcePosition> published = new LinkedHashMap<>();
+    private final Map<String, String> valves = new LinkedHashMap<>();
     private final double ambientPascal;
 
     private CrossFileValidator(SiteFile site, List<RuleFile> files, Problems problems) {
@@ -66,14 +73,44 @@ final class CrossFileValidator {
         for (RuleFile file : files) {
             collectIds(file.ruleIds(), ruleIds, "rule");
             collectIds(file.interlockIds(), interlockIds, "interlock");
+            collectIds(file.fillIds(), fillIds, "fill");
+        }
+        for (Map.Entry<String, SourcePosition> fill : fillIds.entrySet()) {
+            SourcePosition earlier = ruleIds.containsKey(fill.getKey()) ? ruleIds.get(fill.getKey())
+                    : interlockIds.get(fill.getKey());
+            if (earlier != null) {
+                problems.add(fill.getValue(), "fill id '" + fill.getKey() + "' is already used at " + earlier
+                        + ": a fill's id is also the id of its fault alarm, unique among rules and interlocks");
+            }
         }
         boolean siteKnown = site.site().isPresent();
+        for (RuleFile file : files) {
+            for (RuleDef rule : file.rules()) {
+                if (rule instanceof ForecastRule forecast && forecast.publish().isPresent()) {
+                    String id = forecast.publish().get();
+                    SourcePosition at = file.sources().get(rule, "publish", rule.position());
+                    if (site.channelIds().containsKey(id) || site.outputIds().containsKey(id)) {
+                        problems.add(at, "forecast channel '" + id + "' of rule '" + rule.id() + "' is already a "
+                                + (site.channelIds().containsKey(id) ? "channel" : "an output") + " of "
+                                + site.label() + ": publish the forecast under a new id");
+                        continue;
+                    }
+                    SourcePosition earlier = published.putIfAbsent(id, at);
+                    if (earlier != null) {
+                        problems.add(at, "forecast channel '" + id + "' is already published at " + earlier);
+                    }
+                }
+            }
+        }
         for (RuleFile file : files) {
             for (RuleDef rule : file.rules()) {
                 if (siteKnown) {
                     checkChannels(rule, file.sources());
                 }
                 checkAlarmReferences(rule, file.sources());
+            }
+            for (FillDef fill : file.fills()) {
+                checkFill(fill, file.sources(), siteKnown);
             }
             if (siteKnown) {
                 for (InterlockDef interlock : file.interlocks()) {
@@ -101,14 +138,12 @@ final class CrossFileValidator {
             String channel = inputs.get(i);
             String field = rule instanceof VoteRule || rule instanceof DeviationRule ? "channels[" + i + "]" : "channel";
             SourcePosition at = sources.get(rule, field, rule.position());
-            if (!site.channelIds().containsKey(channel)) {
-                String hint = site.outputIds().containsKey(channel)
-                        ? ": '" + channel + "' is an output, not a channel"
-                        : ": no such channel in " + site.label() + Suggestions.didYouMean(channel, site.channelIds().keySet());
-                problems.add(at, "unknown channel '" + channel + "' in rule '" + rule.id() + "'" + hint);
+            if (!knownChannel(channel)) {
+                problems.add(at, "unknown channel '" + channel + "' in rule '" + rule.id() + "'"
+                        + channelHint(channel));
                 continue;
             }
-            Unit unit = channelUnits.get(channel);
+            Unit unit = published.containsKey(channel) ? Unit.HOUR : channelUnits.get(channel);
             if (unit == null) {
                 continue; // declared but itself invalid: already reported in the site file
             }
@@ -122,7 +157,102 @@ final class CrossFileValidator {
                 unitsAgree(deviation.tolerance(), "the tolerance", rule, channel, unit, at);
             } else if (rule instanceof StaleRule stale) {
                 checkStale(stale, channel, sources.get(rule, "timeout", at), at);
+            } else if (rule instanceof ForecastRule forecast) {
+                checkForecast(forecast, channel, unit, sources, at);
             }
+        }
+    }
+
+    private boolean knownChannel(String channel) {
+        return site.channelIds().containsKey(channel) || published.containsKey(channel);
+    }
+
+    private String channelHint(String channel) {
+        if (site.outputIds().containsKey(channel)) {
+            return ": '" + channel + "' is an output, not a channel";
+        }
+        List<String> known = new ArrayList<>(site.channelIds().keySet());
+        known.addAll(published.keySet());
+        return ": no such channel in " + site.label() + Suggestions.didYouMean(channel, known);
+    }
+
+    private void checkForecast(ForecastRule rule, String channel, Unit unit, SourceMap sources, SourcePosition at) {
+        if (published.containsKey(channel)) {
+            problems.add(at, "rule '" + rule.id() + "' forecasts channel '" + channel + "', itself a forecast: "
+                    + "forecast the measured or derived channel instead");
+            return;
+        }
+        unitsAgree(rule.reaches(), "the minimum level", rule, channel, unit, sources.get(rule, "reaches", at));
+        unitsAgree(rule.refillRise(), "the refill rise", rule, channel, unit, sources.get(rule, "refill_rise", at));
+        boolean zoneKnown = rule.timeZone().isPresent() || site.site().flatMap(SiteDef::timeZone).isPresent();
+        if (rule.before().isPresent() && !zoneKnown) {
+            problems.add(sources.get(rule, "before", at), "'before: " + rule.before().get() + "' in rule '" + rule.id()
+                    + "' needs a time zone: add 'time_zone' to the forecast or to the 'site' section of "
+                    + site.label());
+        }
+    }
+
+    private void checkFill(FillDef fill, SourceMap sources, boolean siteKnown) {
+        String what = "fill '" + fill.id() + "'";
+        for (int i = 0; i < fill.blockedBy().size(); i++) {
+            String alarm = fill.blockedBy().get(i);
+            SourcePosition at = sources.get(fill, "blocked_by[" + i + "]", fill.position());
+            if (alarm.equals(fill.id())) {
+                problems.add(at, what + " cannot be blocked by its own fault alarm");
+            } else if (!ruleIds.containsKey(alarm) && !fillIds.containsKey(alarm)) {
+                List<String> alarms = new ArrayList<>(ruleIds.keySet());
+                alarms.addAll(fillIds.keySet());
+                problems.add(at, "unknown alarm '" + alarm + "' in 'blocked_by' of " + what + ": no rule or fill has "
+                        + "this id" + Suggestions.didYouMean(alarm, alarms));
+            }
+        }
+        if (!siteKnown) {
+            return;
+        }
+        SourcePosition channelAt = sources.get(fill, "channel", fill.position());
+        if (!knownChannel(fill.channel())) {
+            problems.add(channelAt, "unknown channel '" + fill.channel() + "' in " + what
+                    + channelHint(fill.channel()));
+        } else {
+            Unit unit = published.containsKey(fill.channel()) ? Unit.HOUR : channelUnits.get(fill.channel());
+            if (unit != null) {
+                fillUnit(fill, "start_below", fill.startBelow(), unit, sources);
+                fillUnit(fill, "stop_above", fill.stopAbove(), unit, sources);
+                fillUnit(fill, "min_rise", fill.minRise(), unit, sources);
+            }
+        }
+        SourcePosition valveAt = sources.get(fill, "valve", fill.position());
+        if (!site.outputIds().containsKey(fill.valve())) {
+            String hint = site.channelIds().containsKey(fill.valve())
+                    ? ": '" + fill.valve() + "' is a channel, not an output"
+                    : ": no such output in " + site.label()
+                            + Suggestions.didYouMean(fill.valve(), site.outputIds().keySet());
+            problems.add(valveAt, "unknown output '" + fill.valve() + "' in " + what + hint);
+            return;
+        }
+        String owner = valves.putIfAbsent(fill.valve(), fill.id());
+        if (owner != null) {
+            problems.add(valveAt, "output '" + fill.valve() + "' of " + what + " is already the valve of fill '"
+                    + owner + "': one fill per valve");
+        }
+        for (RuleFile file : files) {
+            for (InterlockDef interlock : file.interlocks()) {
+                for (OutputAction action : interlock.actions()) {
+                    if (action.output().equals(fill.valve())) {
+                        problems.add(valveAt, "output '" + fill.valve() + "' of " + what + " is also driven by "
+                                + "interlock '" + interlock.id() + "': a fill valve has one owner; list that "
+                                + "interlock's alarms in 'blocked_by' instead");
+                    }
+                }
+            }
+        }
+    }
+
+    private void fillUnit(FillDef fill, String key, Quantity quantity, Unit unit, SourceMap sources) {
+        if (!quantity.unit().isCompatibleWith(unit)) {
+            problems.add(sources.get(fill, key, fill.position()), "unit mismatch: '" + key + "' of fill '" + fill.id()
+                    + "' is " + quantity + ", " + quantity.unit().dimension().expected() + ", but channel '"
+                    + fill.channel() + "' is in " + unit.symbol() + ", " + unit.dimension().expected());
         }
     }
 
@@ -162,7 +292,7 @@ final class CrossFileValidator {
             SourcePosition at = sources.get(rule, "suppress_while[" + i + "]", rule.position());
             if (alarm.equals(rule.id())) {
                 problems.add(at, "rule '" + rule.id() + "' cannot be suppressed while its own alarm is active");
-            } else if (!ruleIds.containsKey(alarm)) {
+            } else if (!ruleIds.containsKey(alarm) && !fillIds.containsKey(alarm)) {
                 problems.add(at, "unknown alarm '" + alarm + "' in 'suppress_while' of rule '" + rule.id()
                         + "': no rule has this id" + Suggestions.didYouMean(alarm, ruleIds.keySet()));
             }

@@ -1,11 +1,14 @@
 package org.cryowarden.rules.config;
 
 import java.time.Duration;
+import java.time.LocalTime;
+import java.time.ZoneId;
 import java.util.ArrayList;
 import java.util.HashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.Optional;
+import java.util.regex.Matcher;
 import java.util.regex.Pattern;
 import org.cryowarden.rules.DurationSyntax;
 import org.cryowarden.rules.Quantity;
@@ -19,6 +22,7 @@ import org.cryowarden.rules.Unit;
  */
 final class Fields {
 
+    private static final Pattern TIME_OF_DAY = Pattern.compile("(\\d{1,2}):(\\d{2})");
     private static final Pattern NUMBER = Pattern.compile("[-+]?(?:\\d+\\.?\\d*|\\.\\d+)(?:[eE][-+]?\\d+)?");
 
     private final ConfigNode.Mapping mapping;
@@ -143,6 +147,57 @@ final class Fields {
             problems.add(scalar.get().position(), "'" + key + "' in " + context + ": " + e.getMessage());
             return Optional.empty();
         }
+    }
+
+    /** A local time of day written {@code HH:MM} (24-hour clock), e.g. {@code 07:00}. */
+    Optional<LocalTime> timeOfDay(String key, boolean required) {
+        Optional<ConfigNode.Scalar> scalar = scalar(key, required, "a time of day such as 07:00");
+        if (scalar.isEmpty()) {
+            return Optional.empty();
+        }
+        String text = scalar.get().text().strip();
+        Matcher matcher = TIME_OF_DAY.matcher(text);
+        if (matcher.matches()) {
+            int hours = Integer.parseInt(matcher.group(1));
+            int minutes = Integer.parseInt(matcher.group(2));
+            if (hours < 24 && minutes < 60) {
+                return Optional.of(LocalTime.of(hours, minutes));
+            }
+        }
+        problems.add(scalar.get().position(), "'" + key + "' in " + context + " must be a local time of day HH:MM "
+                + "on the 24-hour clock (00:00 to 23:59), such as 07:00, found '" + text + "'");
+        return Optional.empty();
+    }
+
+    /** A time-zone region of the tz database, e.g. {@code Europe/Berlin}; never the machine's default. */
+    Optional<ZoneId> zone(String key, boolean required) {
+        Optional<ConfigNode.Scalar> scalar = scalar(key, required, "a time zone such as Europe/Berlin");
+        if (scalar.isEmpty()) {
+            return Optional.empty();
+        }
+        String text = scalar.get().text().strip();
+        if (ZoneId.getAvailableZoneIds().contains(text) || text.equals("UTC")) {
+            return Optional.of(ZoneId.of(text));
+        }
+        problems.add(scalar.get().position(), "unknown time zone '" + text + "' in " + context + ": expected a "
+                + "region of the tz database such as Europe/Berlin or America/Chicago"
+                + Suggestions.didYouMean(text, new java.util.TreeSet<>(ZoneId.getAvailableZoneIds())));
+        return Optional.empty();
+    }
+
+    /** A whole number of at least {@code min}. */
+    Optional<Integer> count(String key, boolean required, int min) {
+        Optional<ConfigNode.Scalar> scalar = scalar(key, required, "a whole number");
+        if (scalar.isEmpty()) {
+            return Optional.empty();
+        }
+        String text = scalar.get().text().strip();
+        if (text.matches("\\d{1,6}") && Integer.parseInt(text) >= min) {
+            return Optional.of(Integer.parseInt(text));
+        }
+        problems.add(scalar.get().position(), "'" + key + "' in " + context + " must be a whole number of at least "
+                + min + ", found '" + text + "'");
+        return Optional.empty();
     }
 
     Optional<Quantity> quantity(String key, boolean required) {

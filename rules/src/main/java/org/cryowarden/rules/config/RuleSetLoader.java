@@ -2,6 +2,8 @@ package org.cryowarden.rules.config;
 
 import java.nio.file.Path;
 import java.time.Duration;
+import java.time.LocalTime;
+import java.time.ZoneId;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
@@ -17,6 +19,9 @@ import org.cryowarden.rules.SourcePosition;
 import org.cryowarden.rules.model.AlarmOptions;
 import org.cryowarden.rules.model.DeviationRule;
 import org.cryowarden.rules.model.Direction;
+import org.cryowarden.rules.model.FillDef;
+import org.cryowarden.rules.model.FloodDef;
+import org.cryowarden.rules.model.ForecastRule;
 import org.cryowarden.rules.model.InterlockDef;
 import org.cryowarden.rules.model.LimitRule;
 import org.cryowarden.rules.model.OutputAction;
@@ -28,15 +33,16 @@ import org.cryowarden.rules.model.StaleRule;
 import org.cryowarden.rules.model.VoteRule;
 
 /**
- * Reads rule-set files ({@code *-rules.yaml}: rules and interlocks) into a {@link RuleSet}, checking what each
+ * Reads rule-set files ({@code *-rules.yaml}: rules, interlocks, fills and the alarm-flood criterion) into a
+ * {@link RuleSet}, checking what each
  * file can check on its own: keys, types, durations, quantities, voting shapes. Whether the channels, alarms,
  * interlocks and outputs they name exist, and whether units and limits agree with the site, is for
  * {@link CrossFileValidator}. The schema is documented in {@code config-examples/README.md}.
  */
 public final class RuleSetLoader {
 
-    static final List<String> TOP_KEYS = List.of("rules", "interlocks");
-    static final List<String> TYPES = List.of("limit", "rate", "stale", "vote", "deviation");
+    static final List<String> TOP_KEYS = List.of("rules", "interlocks", "fills", "alarm_flood");
+    static final List<String> TYPES = List.of("limit", "rate", "stale", "vote", "deviation", "forecast");
     static final List<String> ALARM_KEYS =
             List.of("priority", "message", "on_delay", "off_delay", "latching", "suppress_while", "trips");
     static final List<String> RULE_KEYS;
@@ -46,6 +52,11 @@ public final class RuleSetLoader {
     static final List<String> VOTE_KEYS =
             List.of("channels", "voting", "above", "below", "deadband", "faults_count_as_tripped");
     static final List<String> DEVIATION_KEYS = List.of("channels", "tolerance");
+    static final List<String> FORECAST_KEYS =
+            List.of("channel", "reaches", "window", "refill_rise", "publish", "before", "within", "time_zone");
+    static final List<String> FILL_KEYS = List.of("id", "channel", "valve", "start_below", "stop_above", "open_value",
+            "max_open", "min_rise", "rise_window", "blocked_by", "priority", "message");
+    static final List<String> FLOOD_KEYS = List.of("more_than", "within", "ends_below");
     static final List<String> INTERLOCK_KEYS = List.of("id", "description", "actions");
     static final List<String> ACTION_KEYS = List.of("output", "value");
     static final List<String> PRIORITIES = List.of("critical", "high", "medium", "low");
@@ -76,14 +87,13 @@ public final class RuleSetLoader {
     public static RuleSet load(List<Path> files) throws ConfigException {
         Problems problems = new Problems();
         List<RuleDef> rules = new ArrayList<>();
-        List<InterlockDef> interlocks = new ArrayList<>();
+        List<RuleFile> read = new ArrayList<>();
         for (Path file : files) {
-            RuleFile ruleFile = read(file, problems);
-            rules.addAll(ruleFile.rules());
-            interlocks.addAll(ruleFile.interlocks());
+            read.add(read(file, problems));
         }
+        RuleSet merged = merge(read, problems);
         problems.throwIfAny();
-        return new RuleSet(rules, interlocks);
+        return merged;
     }
 
     /** Reads one rule-set file, adding every problem to {@code problems}; never throws for bad input. */
@@ -107,6 +117,8 @@ public final class RuleSetLoader {
         private final Map<String, SourcePosition> interlockIds = new LinkedHashMap<>();
         private final List<RuleDef> rules = new ArrayList<>();
         private final List<InterlockDef> interlocks = new ArrayList<>();
+        private final Map<String, SourcePosition> fillIds = new LinkedHashMap<>();
+        private final List<FillDef> fills = new ArrayList<>();
 
         Reader(Problems problems, String label) {
             this.problems = problems;
@@ -119,8 +131,8 @@ public final class RuleSetLoader {
                 return RuleFile.unreadable(label);
             }
             top.get().rejectUnknownKeys();
-            if (!top.get().has("rules") && !top.get().has("interlocks")) {
-                problems.add(root.position(), "a rule-set file needs 'rules' or 'interlocks', found neither");
+            if (!top.get().has("rules") && !top.get().has("interlocks") && !top.get().has("fills")) {
+                problems.add(root.position(), "a rule-set file needs 'rules', 'interlocks' or 'fills', found none");
             }
             top.get().list("rules", false, "a list of rules").ifPresent(list -> {
                 for (ConfigNode item : list.items()) {
@@ -132,7 +144,17 @@ public final class RuleSetLoader {
                     interlock(item);
                 }
             });
-            return new RuleFile(label, rules, interlocks, ruleIds, interlockIds, sources);
+            top.get().list("fills", false, "a list of fill controllers").ifPresent(list -> {
+                for (ConfigNode item : list.items()) {
+                    fill(item);
+                }
+            });
+            Optional<FloodDef> flood = top.get().mapping("alarm_flood", false, "a mapping of more_than, within and "
+                    + "ends_below").flatMap(this::flood);
+            Optional<SourcePosition> floodAt = top.get().has("alarm_flood")
+                    ? Optional.of(top.get().keyPosition("alarm_flood")) : Optional.empty();
+            return new RuleFile(label, rules, interlocks, ruleIds, interlockIds, fills, fillIds, flood, floodAt,
+                    sources);
         }
 
         private void rule(ConfigNode node) {
@@ -178,6 +200,7 @@ public final class RuleSetLoader {
                 case "rate" -> rate(id, parameters.get(), alarm, rule.position());
                 case "stale" -> stale(id, parameters.get(), alarm, rule.position());
                 case "vote" -> vote(id, parameters.get(), alarm, rule.position());
+                case "forecast" -> forecast(id, parameters.get(), alarm, rule.position());
                 default -> deviation(id, parameters.get(), alarm, rule.position());
             };
             def.ifPresent(value -> {
@@ -309,6 +332,134 @@ public final class RuleSetLoader {
                 return Optional.empty();
             }
             return Optional.of(new DeviationRule(id.get(), channels.get(), tolerance.get(), alarm.get(), at));
+        }
+
+        private Optional<RuleDef> forecast(Optional<String> id, Fields forecast, Optional<AlarmOptions> alarm,
+                SourcePosition at) {
+            Optional<String> channel = forecast.id("channel", true);
+            Optional<Quantity> reaches = forecast.quantity("reaches", true);
+            Optional<Duration> window = positive(forecast, "window", true);
+            Optional<Quantity> rise = forecast.quantity("refill_rise", true);
+            if (rise.isPresent() && !(rise.get().value() > 0)) {
+                problems.add(forecast.valuePosition("refill_rise"), "'refill_rise' in " + forecast.context()
+                        + " must be more than zero, found '" + rise.get() + "'");
+                rise = Optional.empty();
+            }
+            Optional<String> publish = forecast.id("publish", false);
+            Optional<LocalTime> before = forecast.timeOfDay("before", false);
+            Optional<Duration> within = positive(forecast, "within", false);
+            Optional<ZoneId> zone = forecast.zone("time_zone", false);
+            if (!forecast.has("before") && !forecast.has("within")) {
+                problems.add(forecast.position(), forecast.context() + " needs 'before' (a local time of day such as "
+                        + "07:00) or 'within' (a duration such as 12h), or both, found neither");
+                return Optional.empty();
+            }
+            if (forecast.has("time_zone") && !forecast.has("before")) {
+                problems.add(forecast.keyPosition("time_zone"), "'time_zone' in " + forecast.context() + " is only "
+                        + "used with 'before'");
+            }
+            boolean complete = (before.isPresent() || !forecast.has("before"))
+                    && (within.isPresent() || !forecast.has("within"))
+                    && (zone.isPresent() || !forecast.has("time_zone"))
+                    && (publish.isPresent() || !forecast.has("publish"));
+            if (id.isEmpty() || alarm.isEmpty() || channel.isEmpty() || reaches.isEmpty() || window.isEmpty()
+                    || rise.isEmpty() || !complete) {
+                return Optional.empty();
+            }
+            ForecastRule rule = new ForecastRule(id.get(), channel.get(), reaches.get(), window.get(), rise.get(),
+                    publish, before, within, zone, alarm.get(), at);
+            sources.put(rule, "reaches", forecast.valuePosition("reaches"));
+            sources.put(rule, "refill_rise", forecast.valuePosition("refill_rise"));
+            sources.put(rule, "publish", forecast.valuePosition("publish"));
+            sources.put(rule, "before", forecast.valuePosition("before"));
+            return Optional.of(rule);
+        }
+
+        /** A duration that must be longer than zero. */
+        private Optional<Duration> positive(Fields fields, String key, boolean required) {
+            Optional<Duration> duration = fields.duration(key, required);
+            if (duration.isPresent() && (duration.get().isZero() || duration.get().isNegative())) {
+                problems.add(fields.valuePosition(key), "'" + key + "' in " + fields.context()
+                        + " must be longer than zero, found '" + DurationSyntax.format(duration.get()) + "'");
+                return Optional.empty();
+            }
+            return duration;
+        }
+
+        private void fill(ConfigNode node) {
+            Optional<Fields> opened = Fields.open(node, "a fill", FILL_KEYS, problems);
+            if (opened.isEmpty()) {
+                return;
+            }
+            Fields fill = opened.get();
+            Optional<String> id = fill.id("id", true);
+            id.ifPresent(value -> fill.describeAs("fill '" + value + "'"));
+            fill.rejectUnknownKeys();
+            id.ifPresent(value -> unique(fillIds, value, fill.valuePosition("id"), "fill"));
+            Optional<String> channel = fill.id("channel", true);
+            Optional<String> valve = fill.id("valve", true);
+            Optional<Quantity> start = fill.quantity("start_below", true);
+            Optional<Quantity> stop = fill.quantity("stop_above", true);
+            Optional<Double> openValue = fill.has("open_value") ? fill.number("open_value", false) : Optional.of(1.0);
+            Optional<Duration> maxOpen = positive(fill, "max_open", true);
+            Optional<Quantity> minRise = fill.quantity("min_rise", true);
+            if (minRise.isPresent() && !(minRise.get().value() > 0)) {
+                problems.add(fill.valuePosition("min_rise"), "'min_rise' in " + fill.context()
+                        + " must be more than zero, found '" + minRise.get() + "'");
+                minRise = Optional.empty();
+            }
+            Optional<Duration> riseWindow = positive(fill, "rise_window", true);
+            if (riseWindow.isPresent() && maxOpen.isPresent() && riseWindow.get().compareTo(maxOpen.get()) > 0) {
+                problems.add(fill.valuePosition("rise_window"), "'rise_window' in " + fill.context() + " ("
+                        + DurationSyntax.format(riseWindow.get()) + ") is longer than 'max_open' ("
+                        + DurationSyntax.format(maxOpen.get()) + "): the rise could never be checked");
+                riseWindow = Optional.empty();
+            }
+            if (start.isPresent() && stop.isPresent() && start.get().unit().isCompatibleWith(stop.get().unit())
+                    && !(stop.get().in(start.get().unit()) > start.get().value())) {
+                problems.add(fill.valuePosition("stop_above"), "'stop_above' in " + fill.context() + " ("
+                        + stop.get() + ") must be above 'start_below' (" + start.get() + "): the valve would "
+                        + "open and close at once");
+                stop = Optional.empty();
+            }
+            Optional<List<String>> blockedBy = fill.ids("blocked_by", false, "a list of alarm (rule) ids");
+            Optional<Priority> priority = fill.word("priority", true, PRIORITIES, "priority")
+                    .map(word -> Priority.valueOf(word.toUpperCase(Locale.ROOT)));
+            Optional<String> message = fill.text("message", true);
+            if (id.isEmpty() || channel.isEmpty() || valve.isEmpty() || start.isEmpty() || stop.isEmpty()
+                    || openValue.isEmpty() || maxOpen.isEmpty() || minRise.isEmpty() || riseWindow.isEmpty()
+                    || (blockedBy.isEmpty() && fill.has("blocked_by")) || priority.isEmpty() || message.isEmpty()) {
+                return;
+            }
+            FillDef def = new FillDef(id.get(), channel.get(), valve.get(), start.get(), stop.get(), openValue.get(),
+                    maxOpen.get(), minRise.get(), riseWindow.get(), blockedBy.orElse(List.of()),
+                    AlarmOptions.simple(priority.get(), message.get()), fill.position());
+            fills.add(def);
+            sources.putAll(def, fill.positions());
+        }
+
+        private Optional<FloodDef> flood(ConfigNode.Mapping node) {
+            Optional<Fields> opened = Fields.open(node, "'alarm_flood'", FLOOD_KEYS, problems);
+            if (opened.isEmpty()) {
+                return Optional.empty();
+            }
+            Fields flood = opened.get();
+            flood.rejectUnknownKeys();
+            Optional<Integer> moreThan = flood.has("more_than") ? flood.count("more_than", false, 1)
+                    : Optional.of(FloodDef.DEFAULT.moreThan());
+            Optional<Duration> within = flood.has("within") ? positive(flood, "within", false)
+                    : Optional.of(FloodDef.DEFAULT.within());
+            Optional<Integer> endsBelow = flood.has("ends_below") ? flood.count("ends_below", false, 1)
+                    : Optional.of(Math.min(FloodDef.DEFAULT.endsBelow(), moreThan.orElse(1)));
+            if (moreThan.isEmpty() || within.isEmpty() || endsBelow.isEmpty()) {
+                return Optional.empty();
+            }
+            if (endsBelow.get() > moreThan.get()) {
+                problems.add(flood.valuePosition("ends_below"), "'ends_below' in 'alarm_flood' (" + endsBelow.get()
+                        + ") must not be more than 'more_than' (" + moreThan.get() + ")");
+                return Optional.empty();
+            }
+            return Optional.of(new FloodDef(moreThan.get(), within.get(), endsBelow.get()));
         }
 
         /** Exactly one of two keys, the first meaning HIGH (above, rising), the second LOW (below, falling). */
@@ -476,12 +627,40 @@ public final class RuleSetLoader {
         }
     }
 
+    /**
+     * Merges what the files yielded: rules, interlocks and fills in file order, and the one alarm-flood criterion
+     * (the default unless a file states one; two files stating it is a problem at the second).
+     */
+    static RuleSet merge(List<RuleFile> files, Problems problems) {
+        List<RuleDef> rules = new ArrayList<>();
+        List<InterlockDef> interlocks = new ArrayList<>();
+        List<FillDef> fills = new ArrayList<>();
+        FloodDef flood = FloodDef.DEFAULT;
+        SourcePosition floodAt = null;
+        for (RuleFile file : files) {
+            rules.addAll(file.rules());
+            interlocks.addAll(file.interlocks());
+            fills.addAll(file.fills());
+            if (file.floodPosition().isPresent()) {
+                if (floodAt != null) {
+                    problems.add(file.floodPosition().get(), "'alarm_flood' is already stated at " + floodAt
+                            + ": the flood criterion is one for the whole site; state it once");
+                } else {
+                    floodAt = file.floodPosition().get();
+                    flood = file.flood().orElse(FloodDef.DEFAULT);
+                }
+            }
+        }
+        return new RuleSet(rules, interlocks, fills, flood);
+    }
+
     private static List<String> keysOf(String type) {
         return switch (type) {
             case "limit" -> LIMIT_KEYS;
             case "rate" -> RATE_KEYS;
             case "stale" -> STALE_KEYS;
             case "vote" -> VOTE_KEYS;
+            case "forecast" -> FORECAST_KEYS;
             default -> DEVIATION_KEYS;
         };
     }

@@ -35,7 +35,7 @@ public final class SiteLoader {
 
     static final List<String> TOP_KEYS = List.of("site", "buses", "derived", "mqtt", "journal", "api", "notifiers");
     static final List<String> SECTIONS = List.of("mqtt", "journal", "api", "notifiers");
-    static final List<String> SITE_KEYS = List.of("name", "ambient_pressure");
+    static final List<String> SITE_KEYS = List.of("name", "ambient_pressure", "time_zone");
     static final List<String> BUS_KEYS = List.of("id", "transport", "instruments");
     static final List<String> TRANSPORT_KINDS = List.of("serial", "tcp");
     static final List<String> INSTRUMENT_KEYS = List.of("id", "driver", "settings", "channels", "outputs");
@@ -117,6 +117,7 @@ public final class SiteLoader {
             file.rejectUnknownKeys();
             String name = "";
             double ambient = Quantity.STANDARD_ATMOSPHERE_PA;
+            Optional<java.time.ZoneId> zone = Optional.empty();
             Optional<ConfigNode> siteNode = file.node("site", true);
             if (siteNode.isPresent()) {
                 Optional<Fields> site = Fields.open(siteNode.get(), "the 'site' section", SITE_KEYS, problems);
@@ -124,6 +125,7 @@ public final class SiteLoader {
                     site.get().rejectUnknownKeys();
                     name = site.get().text("name", true).orElse("");
                     ambient = ambientPressure(site.get()).orElse(ambient);
+                    zone = site.get().zone("time_zone", false);
                 }
             }
             List<BusDef> buses = new ArrayList<>();
@@ -145,7 +147,8 @@ public final class SiteLoader {
                 file.mapping(section, false, "a mapping (its keys are described by the issue that uses it)")
                         .ifPresent(mapping -> sections.put(section, mapping));
             }
-            SiteDef site = new SiteDef(name, ambient, buses, channels, derived, outputs, sections, root.position());
+            SiteDef site = new SiteDef(name, ambient, buses, channels, derived, outputs, sections, zone,
+                    root.position());
             return new SiteFile(Optional.of(site), label, channelIds, outputIds, sources);
         }
 

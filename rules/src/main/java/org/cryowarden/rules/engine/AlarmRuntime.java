@@ -33,6 +33,8 @@ final class AlarmRuntime {
     InterlockRuntime trips;
     AlarmRuntime[] suppressors = NONE;
     final List<AlarmRuntime> suppresses = new ArrayList<>();
+    /** Fill controllers that must not fill while this alarm is active. */
+    final List<FillController> blocksFills = new ArrayList<>();
     RuleEvaluator evaluator;
 
     /** The condition after the on- and off-delays: the alarm is active. */
@@ -118,8 +120,16 @@ final class AlarmRuntime {
             acknowledgeNote = "";
         }
         refresh(reading, cause, null, "");
+        if (value && !overridden) {
+            core.flood.activated(this);
+        }
         if (value && trips != null) {
             trips.causeActivated(this, cause);
+        }
+        if (value) {
+            for (FillController fill : blocksFills) {
+                fill.blockerActivated(this);
+            }
         }
         for (AlarmRuntime dependent : suppresses) {
             dependent.refresh(null, value

@@ -23,6 +23,11 @@ final class Core {
     final Map<String, AlarmRuntime> alarms = new LinkedHashMap<>();
     final Map<String, InterlockRuntime> interlocks = new LinkedHashMap<>();
     final Map<String, OutputDef> outputs = new LinkedHashMap<>();
+    final Map<String, FillController> fills = new LinkedHashMap<>();
+    /** Channels published by forecast rules, in rule order (also in {@link #channels}). */
+    final Map<String, ForecastChannel> forecasts = new LinkedHashMap<>();
+    /** Set by {@link Wiring}. */
+    FloodDetector flood;
 
     /** Monotonic nanoseconds of the call in progress. */
     long now;

@@ -107,6 +107,20 @@ public final class Engine {
         return onInterlock(interlockId, operator, InterlockRuntime::reset);
     }
 
+    /**
+     * Clears the lockout of a fill (after no rise or the maximum open time); the controller decides again from the
+     * next level reading. Refused when the fill is not locked out.
+     */
+    public CommandResult resetFill(String fillId, String operator) {
+        return command(operator, who -> {
+            FillController fill = core.fills.get(fillId);
+            if (fill == null) {
+                return "there is no fill '" + fillId + "'" + Suggestion.didYouMean(fillId, core.fills.keySet());
+            }
+            return fill.reset(who);
+        });
+    }
+
     /** Bypasses an interlock until the bypass expires or is ended: its alarms still raise but do not trip it. */
     public CommandResult bypass(String interlockId, String owner, String reason, Duration duration) {
         Objects.requireNonNull(reason, "reason");
@@ -141,12 +155,41 @@ public final class Engine {
         return result;
     }
 
-    /** The latest reading of a measured or derived channel, as the rules saw it. */
+    /** Every fill controller in rule-set order. */
+    public List<FillStatus> fills() {
+        List<FillStatus> result = new ArrayList<>(core.fills.size());
+        for (FillController fill : core.fills.values()) {
+            result.add(fill.status());
+        }
+        return result;
+    }
+
+    public Optional<FillStatus> fill(String fillId) {
+        return Optional.ofNullable(core.fills.get(fillId)).map(FillController::status);
+    }
+
+    /** The alarm flood in progress, if any: the event that started it. */
+    public Optional<FloodStarted> flood() {
+        return core.flood.current();
+    }
+
+    /**
+     * The channels that forecast rules publish (hours until the forecast crossing, unit h), in rule order; read
+     * their values with {@link #latest(String)} like any derived channel.
+     */
+    public List<String> forecastChannels() {
+        return List.copyOf(core.forecasts.keySet());
+    }
+
+    /** The latest reading of a measured, derived or forecast channel, as the rules saw it. */
     public Optional<Reading> latest(String channelId) {
         return Optional.ofNullable(core.channels.get(channelId)).map(channel -> channel.latest);
     }
 
-    /** What must survive a restart: every alarm's lifecycle facts and every interlock's trip and bypass. */
+    /**
+     * What must survive a restart: every alarm's lifecycle facts, every interlock's trip and bypass, every fill's
+     * lockout. An alarm flood in progress is not kept: after a restart the count starts afresh.
+     */
     public EngineSnapshot snapshot() {
         List<EngineSnapshot.AlarmRecord> alarms = new ArrayList<>(core.alarms.size());
         for (AlarmRuntime alarm : core.alarms.values()) {
@@ -156,17 +199,25 @@ public final class Engine {
         for (InterlockRuntime interlock : core.interlocks.values()) {
             interlocks.add(interlock.record());
         }
-        return new EngineSnapshot(core.time.wallNow(), alarms, interlocks);
+        List<EngineSnapshot.FillRecord> fills = new ArrayList<>(core.fills.size());
+        for (FillController fill : core.fills.values()) {
+            fills.add(fill.record());
+        }
+        return new EngineSnapshot(core.time.wallNow(), alarms, interlocks, fills);
     }
 
     /**
      * Brings back the state of a snapshot into a freshly built engine, before its first reading, tick or command:
      * alarm states (unacknowledged alarms stay unacknowledged), latched trips and bypasses. A shelving or bypass
      * never lasts longer than intended: the shorter of its remaining time and its wall-clock expiry is kept, and one
-     * that ran out while the daemon was down expires at the first tick. Emits no transitions.
+     * that ran out while the daemon was down expires at the first tick. A fill's lockout survives; every fill valve
+     * is closed (its safe value) whatever it was doing, and stays closed until its controller decides again from
+     * the next GOOD level reading, since nobody knows how long it was open while the daemon was down. Emits no
+     * alarm transitions.
      *
-     * @return the output commands that re-assert tripped interlocks, and notes on snapshot entries that no longer
-     *         match the configuration
+     * @return the output commands that re-assert tripped interlocks and close every fill valve (with a
+     *         {@link FillStopped} of reason {@link FillStopReason#RESTART} before the command of a valve that was
+     *         open), and notes on snapshot entries that no longer match the configuration
      * @throws IllegalStateException after the engine has processed anything
      */
     public RestoreResult restore(EngineSnapshot snapshot) {
@@ -202,6 +253,20 @@ public final class Engine {
                 continue;
             }
             events.addAll(interlock.restore(record));
+        }
+        Map<String, EngineSnapshot.FillRecord> fillRecords = new java.util.HashMap<>();
+        for (EngineSnapshot.FillRecord record : snapshot.fills()) {
+            if (!core.fills.containsKey(record.id())) {
+                notes.add("fill " + record.id() + " is no longer in the rule set"
+                        + (record.lockedOut() ? "; it was locked out" : ""));
+                continue;
+            }
+            fillRecords.put(record.id(), record);
+        }
+        for (FillController fill : core.fills.values()) {
+            EngineSnapshot.FillRecord record = fillRecords.getOrDefault(fill.id,
+                    new EngineSnapshot.FillRecord(fill.id, false, core.wall, Optional.empty(), false));
+            events.addAll(fill.restore(record));
         }
         return new RestoreResult(events, notes);
     }

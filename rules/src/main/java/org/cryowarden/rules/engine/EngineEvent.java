@@ -8,7 +8,8 @@ import java.time.Instant;
  * daemon journals and publishes them, and hands {@link OutputCommand}s to the drivers.
  */
 public sealed interface EngineEvent
-        permits AlarmTransition, InterlockTripped, InterlockReset, BypassStarted, BypassEnded, OutputCommand {
+        permits AlarmTransition, InterlockTripped, InterlockReset, BypassStarted, BypassEnded, OutputCommand,
+        FillStarted, FillStopped, FillReset, FloodStarted, FloodEnded {
 
     Instant instant();
 

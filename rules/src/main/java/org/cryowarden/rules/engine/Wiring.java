@@ -1,6 +1,7 @@
 package org.cryowarden.rules.engine;
 
 import java.time.Duration;
+import java.time.ZoneId;
 import java.util.ArrayList;
 import java.util.HashMap;
 import java.util.HashSet;
@@ -16,6 +17,8 @@ import org.cryowarden.rules.model.AlarmOptions;
 import org.cryowarden.rules.model.ChannelDef;
 import org.cryowarden.rules.model.DerivedChannelDef;
 import org.cryowarden.rules.model.DeviationRule;
+import org.cryowarden.rules.model.FillDef;
+import org.cryowarden.rules.model.ForecastRule;
 import org.cryowarden.rules.model.InterlockDef;
 import org.cryowarden.rules.model.LimitRule;
 import org.cryowarden.rules.model.OutputAction;
@@ -58,7 +61,10 @@ final class Wiring {
         wiring.derived();
         wiring.outputs();
         wiring.interlocks();
+        wiring.core.flood = new FloodDetector(wiring.core, config.ruleSet().flood());
+        wiring.forecastChannels();
         wiring.rules();
+        wiring.fills();
         wiring.start();
         return wiring.core;
     }
@@ -156,6 +162,88 @@ final class Wiring {
         }
     }
 
+    /** The channels forecast rules publish, created first so that any rule may read them. */
+    private void forecastChannels() {
+        for (RuleDef rule : config.ruleSet().rules()) {
+            if (rule instanceof ForecastRule forecast && forecast.publish().isPresent()) {
+                String id = forecast.publish().get();
+                unique("channel", id, rule.position());
+                if (!core.channels.containsKey(forecast.channel())) {
+                    continue; // reported as an unknown channel when the rule is wired
+                }
+                ForecastChannel channel = new ForecastChannel(id);
+                core.forecasts.put(id, channel);
+                core.channels.put(id, channel);
+                staleAfter.put(id, staleAfter.get(forecast.channel()));
+            }
+        }
+    }
+
+    private void fills() {
+        Map<String, String> valves = new HashMap<>();
+        for (FillDef def : config.ruleSet().fills()) {
+            String what = "fill " + def.id();
+            if (core.alarms.containsKey(def.id()) || core.interlocks.containsKey(def.id())) {
+                throw refuse(def.position(), what, "its id is already the id of a rule or interlock; a fill's id is "
+                        + "also its fault alarm's id");
+            }
+            unique("fill", def.id(), def.position());
+            ChannelNode level = core.channels.get(def.channel());
+            if (level == null) {
+                throw refuse(def.position(), what, "unknown channel '" + def.channel() + "'"
+                        + suggest(def.channel(), allChannelIds()));
+            }
+            OutputDef valve = core.outputs.get(def.valve());
+            if (valve == null) {
+                throw refuse(def.position(), what, "unknown output '" + def.valve() + "'"
+                        + suggest(def.valve(), core.outputs.keySet()));
+            }
+            String other = valves.putIfAbsent(def.valve(), def.id());
+            if (other != null) {
+                throw refuse(def.position(), what, "output " + def.valve() + " is already the valve of fill " + other);
+            }
+            for (InterlockRuntime interlock : core.interlocks.values()) {
+                if (interlock.acts(def.valve())) {
+                    throw refuse(def.position(), what, "output " + def.valve() + " is also driven by interlock "
+                            + interlock.id + ": a fill valve has one owner; list that interlock's alarms in "
+                            + "blocked_by instead");
+                }
+            }
+            Unit unit = level.unit;
+            double start = level(def.position(), what, "start level", def.startBelow(), unit);
+            double stop = level(def.position(), what, "stop level", def.stopAbove(), unit);
+            if (!(stop > start)) {
+                throw refuse(def.position(), what, "the stop level " + def.stopAbove() + " must be above the start "
+                        + "level " + def.startBelow());
+            }
+            double rise = difference(def.position(), what, "minimum rise", def.minRise(), unit);
+            AlarmRuntime alarm = new AlarmRuntime(core, def.id(), def.alarm());
+            FillController controller = new FillController(alarm, core, def, unit, start, stop, rise,
+                    valve.safeValue());
+            alarm.evaluator = controller;
+            core.alarms.put(def.id(), alarm);
+            core.fills.put(def.id(), controller);
+            level.addRule(controller);
+        }
+        // Blockers after every fill alarm exists: a fill may be blocked by another fill's fault alarm.
+        for (FillController controller : core.fills.values()) {
+            FillDef def = controller.def;
+            String what = "fill " + def.id();
+            AlarmRuntime alarm = controller.alarm;
+            List<AlarmRuntime> blockers = new ArrayList<>();
+            for (String blocker : def.blockedBy()) {
+                AlarmRuntime runtime = core.alarms.get(blocker);
+                if (runtime == null || runtime == alarm) {
+                    throw refuse(def.position(), what, runtime == null ? "is blocked by unknown alarm '" + blocker
+                            + "'" + suggest(blocker, core.alarms.keySet()) : "cannot be blocked by its own alarm");
+                }
+                blockers.add(runtime);
+                runtime.blocksFills.add(controller);
+            }
+            controller.blockers = blockers.toArray(new AlarmRuntime[0]);
+        }
+    }
+
     private void rules() {
         for (RuleDef rule : config.ruleSet().rules()) {
             unique("rule", rule.id(), rule.position());
@@ -247,6 +335,9 @@ final class Wiring {
             return new VoteEvaluator(alarm, channels, vote.required(), vote.direction(), setpoints, deadbands,
                     vote.faultCountsAsTripped(), Texts.quantity(vote.setpoint().value(), vote.setpoint().unit()));
         }
+        if (rule instanceof ForecastRule forecast) {
+            return forecast(forecast, alarm);
+        }
         DeviationRule deviation = (DeviationRule) rule;
         ChannelNode[] channels = new ChannelNode[deviation.channels().size()];
         for (int i = 0; i < channels.length; i++) {
@@ -263,6 +354,26 @@ final class Wiring {
         return new DeviationEvaluator(alarm, channels, tolerance, ambientPa);
     }
 
+    private RuleEvaluator forecast(ForecastRule rule, AlarmRuntime alarm) {
+        if (core.forecasts.containsKey(rule.channel())) {
+            throw refuse(rule, "cannot forecast channel " + rule.channel() + ", itself a forecast");
+        }
+        Unit unit = core.channels.get(rule.channel()).unit;
+        double reaches = level(rule, "minimum level", rule.reaches(), unit);
+        double rise = difference(rule, "refill rise", rule.refillRise(), unit);
+        if (!(rise > 0)) {
+            throw refuse(rule, "the refill rise must be more than zero, got " + rule.refillRise());
+        }
+        ZoneId zone = rule.timeZone().or(config::timeZone).orElse(null);
+        if (rule.before().isPresent() && zone == null) {
+            throw refuse(rule, "'before " + rule.before().get() + "' needs a time zone: give the rule or the site "
+                    + "a time_zone");
+        }
+        return new ForecastEvaluator(alarm, core, rule.channel(), unit, reaches, rise, rule.window().toNanos(),
+                rule.publish().map(core.forecasts::get).orElse(null), rule.before().orElse(null), zone,
+                rule.within().map(Duration::toNanos).orElse(0L));
+    }
+
     private void start() {
         long now = core.now;
         for (MeasuredChannel channel : core.measured.values()) {
@@ -275,11 +386,15 @@ final class Wiring {
 
     /** A level (a setpoint) in the channel's unit: offsets apply, gauge/absolute through the ambient pressure. */
     private double level(RuleDef rule, String what, Quantity quantity, Unit channelUnit) {
+        return level(rule.position(), "rule " + rule.id(), what, quantity, channelUnit);
+    }
+
+    private double level(SourcePosition at, String item, String what, Quantity quantity, Unit channelUnit) {
         if (!Double.isFinite(quantity.value())) {
-            throw refuse(rule, "the " + what + " must be a finite number, got " + quantity);
+            throw refuse(at, item, "the " + what + " must be a finite number, got " + quantity);
         }
         if (!quantity.unit().isCompatibleWith(channelUnit)) {
-            throw refuse(rule, "the " + what + " " + quantity + " is " + quantity.unit().dimension().expected()
+            throw refuse(at, item, "the " + what + " " + quantity + " is " + quantity.unit().dimension().expected()
                     + " but the channel is in " + channelUnit.symbol() + ", " + channelUnit.dimension().expected());
         }
         return quantity.in(channelUnit, ambientPa);
@@ -287,14 +402,18 @@ final class Wiring {
 
     /** A difference (deadband, tolerance, rate) in the channel's unit: no offsets, no gauge/absolute shift. */
     private double difference(RuleDef rule, String what, Quantity quantity, Unit channelUnit) {
+        return difference(rule.position(), "rule " + rule.id(), what, quantity, channelUnit);
+    }
+
+    private double difference(SourcePosition at, String item, String what, Quantity quantity, Unit channelUnit) {
         if (!Double.isFinite(quantity.value()) || quantity.value() < 0) {
-            throw refuse(rule, "the " + what + " must be a non-negative finite number, got " + quantity);
+            throw refuse(at, item, "the " + what + " must be a non-negative finite number, got " + quantity);
         }
         if (quantity.value() == 0) {
             return 0;
         }
         if (!quantity.unit().isCompatibleWith(channelUnit)) {
-            throw refuse(rule, "the " + what + " " + quantity + " is " + quantity.unit().dimension().expected()
+            throw refuse(at, item, "the " + what + " " + quantity + " is " + quantity.unit().dimension().expected()
                     + " but the channel is in " + channelUnit.symbol() + ", " + channelUnit.dimension().expected());
         }
         return quantity.unit().differenceTo(channelUnit, quantity.value());

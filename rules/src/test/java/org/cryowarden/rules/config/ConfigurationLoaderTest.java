@@ -93,8 +93,8 @@ class ConfigurationLoaderTest {
                 BROKEN + ":49:44: unknown key 'dead_band' in the 'limit' of rule 'bad-key': expected one of "
                         + "channel, above, below, deadband; did you mean 'deadband'?",
                 BROKEN + ":51:5: unknown key 'mesage' in rule 'bad-key': expected one of id, limit, rate, stale, "
-                        + "vote, deviation, priority, message, on_delay, off_delay, latching, suppress_while, trips; "
-                        + "did you mean 'message'?",
+                        + "vote, deviation, forecast, priority, message, on_delay, off_delay, latching, suppress_while, "
+                        + "trips; did you mean 'message'?",
                 BROKEN + ":56:22: unknown alarm 'unknown-chanel' in 'suppress_while' of rule 'bad-references': no "
                         + "rule has this id; did you mean 'unknown-channel'?",
                 BROKEN + ":57:12: unknown interlock 'ventilat' in 'trips' of rule 'bad-references': no interlock "

@@ -2,6 +2,7 @@ package org.cryowarden.rules.engine;
 
 import java.time.Duration;
 import java.time.Instant;
+import java.time.ZoneId;
 import java.time.ZoneOffset;
 import java.time.format.DateTimeFormatter;
 import java.util.ArrayList;
@@ -16,6 +17,8 @@ import org.cryowarden.rules.VirtualTimeSource;
 import org.cryowarden.rules.model.AlarmOptions;
 import org.cryowarden.rules.model.ChannelDef;
 import org.cryowarden.rules.model.DerivedChannelDef;
+import org.cryowarden.rules.model.FillDef;
+import org.cryowarden.rules.model.FloodDef;
 import org.cryowarden.rules.model.InterlockDef;
 import org.cryowarden.rules.model.OutputDef;
 import org.cryowarden.rules.model.Priority;
@@ -38,6 +41,9 @@ final class Site {
     private final List<OutputDef> outputs = new ArrayList<>();
     private final List<RuleDef> rules = new ArrayList<>();
     private final List<InterlockDef> interlocks = new ArrayList<>();
+    private final List<FillDef> fills = new ArrayList<>();
+    private FloodDef flood = FloodDef.DEFAULT;
+    private Optional<ZoneId> timeZone = Optional.empty();
     private double ambientPa = Quantity.STANDARD_ATMOSPHERE_PA;
     private DerivedFunctions functions = DerivedFunctions.builtIn();
     private Engine engine;
@@ -86,6 +92,21 @@ final class Site {
         return this;
     }
 
+    Site fill(FillDef fill) {
+        fills.add(fill);
+        return this;
+    }
+
+    Site flood(FloodDef criterion) {
+        this.flood = criterion;
+        return this;
+    }
+
+    Site timeZone(String zone) {
+        this.timeZone = Optional.of(ZoneId.of(zone));
+        return this;
+    }
+
     Site ambient(double pascal) {
         this.ambientPa = pascal;
         return this;
@@ -97,7 +118,8 @@ final class Site {
     }
 
     EngineConfig config() {
-        return new EngineConfig(channels, derived, outputs, new RuleSet(rules, interlocks), ambientPa);
+        return new EngineConfig(channels, derived, outputs, new RuleSet(rules, interlocks, fills, flood), ambientPa,
+                timeZone);
     }
 
     Engine engine() {
@@ -186,6 +208,23 @@ final class Site {
         if (event instanceof BypassStarted) {
             BypassStarted b = (BypassStarted) event;
             return time + " " + b.interlockId() + " bypassed by " + b.owner() + " until " + CLOCK.format(b.until());
+        }
+        if (event instanceof FillStarted f) {
+            return time + " " + f.fillId() + " started: " + f.cause();
+        }
+        if (event instanceof FillStopped f) {
+            return time + " " + f.fillId() + " stopped: " + f.cause();
+        }
+        if (event instanceof FillReset f) {
+            return time + " " + f.fillId() + " reset by " + f.operator();
+        }
+        if (event instanceof FloodStarted f) {
+            return time + " flood started: " + f.count() + " alarms, first out " + f.firstOutAlarm() + " at "
+                    + CLOCK.format(f.firstOutAt());
+        }
+        if (event instanceof FloodEnded f) {
+            return time + " flood ended: " + f.activations() + " alarms since " + f.firstOutAlarm() + " in "
+                    + Texts.duration(f.duration());
         }
         BypassEnded b = (BypassEnded) event;
         return time + " " + b.interlockId() + " bypass ended: " + b.cause();
