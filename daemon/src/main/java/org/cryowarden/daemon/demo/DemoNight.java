@@ -372,7 +372,7 @@ public final class DemoNight {
         }
         SiteDef site = configuration.site();
         SiteDef pointed = new SiteDef(site.name(), site.ambientPressurePa(), buses, site.channels(), site.derived(),
-                site.outputs(), site.sections(), site.position());
+                site.outputs(), site.sections(), site.timeZone(), site.position());
         return new Configuration(pointed, configuration.rules(), configuration.siteFile(), configuration.ruleFiles());
     }
 

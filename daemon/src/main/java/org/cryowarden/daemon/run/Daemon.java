@@ -30,6 +30,7 @@ import org.cryowarden.daemon.journal.JournalSettings;
 import org.cryowarden.daemon.mqtt.MqttLink;
 import org.cryowarden.daemon.mqtt.MqttLinkSettings;
 import org.cryowarden.drivers.plugin.DriverCatalog;
+import org.cryowarden.drivers.site.SiteDrivers;
 import org.cryowarden.drivers.poll.Backoff;
 import org.cryowarden.drivers.poll.BusPoller;
 import org.cryowarden.rules.ConfigException;
@@ -158,7 +159,7 @@ public final class Daemon implements AutoCloseable {
             listeners.forEach(l -> l.accept(recorded));
         });
         restore();
-        this.pollers = SiteSetup.pollers(configuration.site(), catalog, time, loop::offer, options.backoff());
+        this.pollers = SiteDrivers.pollers(configuration.site(), catalog, time, loop::offer, options.backoff());
         outputs.owners(owners(pollers, configuration));
         registerMetrics();
     }
@@ -242,8 +243,12 @@ public final class Daemon implements AutoCloseable {
         }
         List<EngineSnapshot.AlarmRecord> alarms = new ArrayList<>();
         List<EngineSnapshot.InterlockRecord> interlocks = new ArrayList<>();
+        List<EngineSnapshot.FillRecord> fills = new ArrayList<>();
         for (AlarmStateRecord record : states.values()) {
-            if (record.alarmId().startsWith(SnapshotJson.INTERLOCK_KEY)) {
+            if (record.alarmId().startsWith(SnapshotJson.FILL_KEY)) {
+                SnapshotJson.parseFill(record.stateJson()).ifPresentOrElse(fills::add,
+                        () -> LOG.warn("journal: cannot read the state of {}; it starts unlocked", record.alarmId()));
+            } else if (record.alarmId().startsWith(SnapshotJson.INTERLOCK_KEY)) {
                 SnapshotJson.parseInterlock(record.stateJson()).ifPresentOrElse(interlocks::add,
                         () -> LOG.warn("journal: cannot read the state of {}; it starts untripped", record.alarmId()));
             } else {
@@ -252,11 +257,12 @@ public final class Daemon implements AutoCloseable {
                                 record.alarmId()));
             }
         }
-        if (alarms.isEmpty() && interlocks.isEmpty()) {
+        if (alarms.isEmpty() && interlocks.isEmpty() && fills.isEmpty()) {
             return;
         }
-        List<String> notes = loop.restore(new EngineSnapshot(time.wallNow(), alarms, interlocks));
-        LOG.info("restored {} alarm states and {} interlocks from the journal", alarms.size(), interlocks.size());
+        List<String> notes = loop.restore(new EngineSnapshot(time.wallNow(), alarms, interlocks, fills));
+        LOG.info("restored {} alarm states, {} interlocks and {} fill controllers from the journal", alarms.size(),
+                interlocks.size(), fills.size());
         notes.forEach(note -> LOG.warn("restore: {}", note));
     }
 
@@ -461,7 +467,7 @@ public final class Daemon implements AutoCloseable {
             if (current != null) {
                 current.close();
             }
-            BusPoller poller = SiteSetup.poller(bus, SiteSetup.context(fresh.site(), time), catalog, time,
+            BusPoller poller = SiteDrivers.poller(bus, SiteDrivers.context(fresh.site(), time), catalog, time,
                     loop::offer, options.backoff());
             if (options.mode() == Mode.THREADS) {
                 poller.start();

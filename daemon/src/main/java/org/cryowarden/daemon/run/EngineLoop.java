@@ -24,6 +24,9 @@ import org.cryowarden.rules.engine.CommandResult;
 import org.cryowarden.rules.engine.Engine;
 import org.cryowarden.rules.engine.EngineEvent;
 import org.cryowarden.rules.engine.EngineSnapshot;
+import org.cryowarden.rules.engine.FillReset;
+import org.cryowarden.rules.engine.FillStarted;
+import org.cryowarden.rules.engine.FillStopped;
 import org.cryowarden.rules.engine.InterlockReset;
 import org.cryowarden.rules.engine.InterlockTripped;
 import org.cryowarden.rules.engine.OutputCommand;
@@ -182,6 +185,9 @@ final class EngineLoop implements AutoCloseable {
                 for (EngineSnapshot.InterlockRecord record : now.interlocks()) {
                     states.put(SnapshotJson.INTERLOCK_KEY + record.id(), SnapshotJson.interlock(record));
                 }
+                for (EngineSnapshot.FillRecord record : now.fills()) {
+                    states.put(SnapshotJson.FILL_KEY + record.id(), SnapshotJson.fill(record));
+                }
                 Map<String, ObjectNode> documents = new LinkedHashMap<>();
                 Map<String, EngineSnapshot.AlarmRecord> records = records();
                 for (AlarmStatus status : engine.alarms()) {
@@ -301,7 +307,10 @@ final class EngineLoop implements AutoCloseable {
             case "shelve" -> engine.shelve(command.target(), command.operator(), command.duration().orElseThrow(),
                     command.reason());
             case "unshelve" -> engine.unshelve(command.target(), command.operator());
-            case "reset" -> engine.reset(command.target(), command.operator());
+            // One verb resets what an operator can reset: a tripped interlock or a locked-out fill controller.
+            case "reset" -> engine.fill(command.target()).isPresent()
+                    ? engine.resetFill(command.target(), command.operator())
+                    : engine.reset(command.target(), command.operator());
             case "bypass" -> engine.bypass(command.target(), command.operator(), command.reason(),
                     command.duration().orElseThrow());
             default -> throw new IllegalArgumentException("unknown verb " + command.verb());
@@ -317,6 +326,7 @@ final class EngineLoop implements AutoCloseable {
         List<DaemonEvent> mapped = new ArrayList<>(events.size());
         Set<String> alarms = new LinkedHashSet<>();
         Set<String> interlocks = new HashSet<>();
+        Set<String> fills = new HashSet<>();
         for (EngineEvent event : events) {
             mapped.add(EventMapping.of(event));
             if (event instanceof AlarmTransition t) {
@@ -329,6 +339,12 @@ final class EngineLoop implements AutoCloseable {
                 interlocks.add(b.interlockId());
             } else if (event instanceof BypassEnded b) {
                 interlocks.add(b.interlockId());
+            } else if (event instanceof FillStarted f) {
+                fills.add(f.fillId());
+            } else if (event instanceof FillStopped f) {
+                fills.add(f.fillId());
+            } else if (event instanceof FillReset f) {
+                fills.add(f.fillId());
             } else if (event instanceof OutputCommand command) {
                 sinks.output(command);
             }
@@ -345,6 +361,11 @@ final class EngineLoop implements AutoCloseable {
         for (EngineSnapshot.InterlockRecord record : snapshot.interlocks()) {
             if (interlocks.contains(record.id())) {
                 states.put(SnapshotJson.INTERLOCK_KEY + record.id(), SnapshotJson.interlock(record));
+            }
+        }
+        for (EngineSnapshot.FillRecord record : snapshot.fills()) {
+            if (fills.contains(record.id())) {
+                states.put(SnapshotJson.FILL_KEY + record.id(), SnapshotJson.fill(record));
             }
         }
         sinks.batch(new EventBatch(mapped, states, documents, summary()));

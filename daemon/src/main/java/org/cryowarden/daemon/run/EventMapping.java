@@ -8,6 +8,11 @@ import org.cryowarden.rules.engine.AlarmTransition;
 import org.cryowarden.rules.engine.BypassEnded;
 import org.cryowarden.rules.engine.BypassStarted;
 import org.cryowarden.rules.engine.EngineEvent;
+import org.cryowarden.rules.engine.FillReset;
+import org.cryowarden.rules.engine.FillStarted;
+import org.cryowarden.rules.engine.FillStopped;
+import org.cryowarden.rules.engine.FloodEnded;
+import org.cryowarden.rules.engine.FloodStarted;
 import org.cryowarden.rules.engine.InterlockReset;
 import org.cryowarden.rules.engine.InterlockTripped;
 import org.cryowarden.rules.engine.OutputCommand;
@@ -53,10 +58,48 @@ final class EventMapping {
             return new DaemonEvent("interlock.bypass-ended", b.instant(), Optional.of(b.interlockId()), b.endedBy(),
                     payload);
         }
-        OutputCommand c = (OutputCommand) event;
-        payload.put("value", c.value());
-        payload.put("interlock", c.interlockId());
-        return new DaemonEvent("output.command", c.instant(), Optional.of(c.outputId()), Optional.empty(), payload);
+        if (event instanceof FillStarted f) {
+            payload.put("valve", f.valve());
+            payload.set("level", Payloads.reading(f.level()));
+            return new DaemonEvent("fill.started", f.instant(), Optional.of(f.fillId()), Optional.empty(), payload);
+        }
+        if (event instanceof FillStopped f) {
+            payload.put("valve", f.valve());
+            payload.put("reason", f.reason().wire());
+            payload.put("locked_out", f.lockedOut());
+            f.level().ifPresent(r -> payload.set("level", Payloads.reading(r)));
+            return new DaemonEvent("fill.stopped", f.instant(), Optional.of(f.fillId()), Optional.empty(), payload);
+        }
+        if (event instanceof FillReset f) {
+            return new DaemonEvent("fill.reset", f.instant(), Optional.of(f.fillId()), Optional.of(f.operator()),
+                    payload);
+        }
+        if (event instanceof FloodStarted f) {
+            payload.put("count", f.count());
+            payload.put("window", f.window().toString());
+            payload.put("first_out", f.firstOutAlarm());
+            payload.put("first_out_at", f.firstOutAt().toString());
+            ArrayNode alarms = payload.putArray("alarms");
+            f.alarms().forEach(alarms::add);
+            return new DaemonEvent("flood.started", f.instant(), Optional.of(f.firstOutAlarm()), Optional.empty(),
+                    payload);
+        }
+        if (event instanceof FloodEnded f) {
+            payload.put("started", f.startedAt().toString());
+            payload.put("activations", f.activations());
+            payload.put("first_out", f.firstOutAlarm());
+            payload.put("duration", f.duration().toString());
+            return new DaemonEvent("flood.ended", f.instant(), Optional.of(f.firstOutAlarm()), Optional.empty(),
+                    payload);
+        }
+        if (event instanceof OutputCommand c) {
+            payload.put("value", c.value());
+            payload.put("interlock", c.interlockId());
+            return new DaemonEvent("output.command", c.instant(), Optional.of(c.outputId()), Optional.empty(),
+                    payload);
+        }
+        // EngineEvent is sealed; reaching here means a new event type was added without a mapping.
+        throw new IllegalStateException("no journal mapping for engine event " + event.getClass().getSimpleName());
     }
 
     /** The event kind of an alarm transition, from the states it joins (ANSI/ISA-18.2 lifecycle). */

@@ -22,6 +22,8 @@ import org.cryowarden.rules.engine.Shelving;
 final class SnapshotJson {
 
     static final String INTERLOCK_KEY = "interlock:";
+    /** Fill controllers are stored the same way, under {@code fill:<id>}. */
+    static final String FILL_KEY = "fill:";
 
     private SnapshotJson() {
     }
@@ -64,6 +66,16 @@ final class SnapshotJson {
         return Payloads.text(node);
     }
 
+    static String fill(EngineSnapshot.FillRecord record) {
+        ObjectNode node = Payloads.object();
+        node.put("id", record.id());
+        node.put("locked_out", record.lockedOut());
+        node.put("since", record.since().toString());
+        Payloads.putOptional(node, "lockout", record.lockout());
+        node.put("valve_open", record.valveOpen());
+        return Payloads.text(node);
+    }
+
     /** Parses what {@link #alarm} wrote; empty (and the caller logs) for a record this version cannot read. */
     static Optional<EngineSnapshot.AlarmRecord> parseAlarm(String json) {
         try {
@@ -102,6 +114,18 @@ final class SnapshotJson {
             return Optional.of(new EngineSnapshot.InterlockRecord(node.path("id").asText(),
                     node.path("tripped").asBoolean(), optionalText(node, "tripped_at").map(Instant::parse), causes,
                     bypass));
+        } catch (JsonProcessingException | RuntimeException e) {
+            return Optional.empty();
+        }
+    }
+
+    /** Parses what {@link #fill} wrote; empty for a record this version cannot read. */
+    static Optional<EngineSnapshot.FillRecord> parseFill(String json) {
+        try {
+            JsonNode node = Payloads.JSON.readTree(json);
+            return Optional.of(new EngineSnapshot.FillRecord(node.path("id").asText(),
+                    node.path("locked_out").asBoolean(), Instant.parse(node.path("since").asText()),
+                    optionalText(node, "lockout"), node.path("valve_open").asBoolean()));
         } catch (JsonProcessingException | RuntimeException e) {
             return Optional.empty();
         }

@@ -62,12 +62,18 @@ public final class SiteDrivers {
     }
 
     /**
-     * One unstarted poller per bus, its transport unopened. The caller starts them ({@link BusPoller#start()}) and
-     * closes them at shutdown.
+     * One unstarted poller per bus, its transport unopened, reopening with the default backoff. The caller starts
+     * them ({@link BusPoller#start()}) and closes them at shutdown.
      *
      * @throws IllegalArgumentException when the site does not {@link #validate}
      */
     public static List<BusPoller> pollers(SiteDef site, DriverCatalog catalog, TimeSource time, ReadingSink sink) {
+        return pollers(site, catalog, time, sink, Backoff.DEFAULT);
+    }
+
+    /** As {@link #pollers(SiteDef, DriverCatalog, TimeSource, ReadingSink)}, with a stated reopen backoff. */
+    public static List<BusPoller> pollers(SiteDef site, DriverCatalog catalog, TimeSource time, ReadingSink sink,
+            Backoff backoff) {
         List<ConfigProblem> problems = validate(site, catalog, time);
         if (!problems.isEmpty()) {
             throw new IllegalArgumentException("site does not validate: " + problems);
@@ -75,27 +81,37 @@ public final class SiteDrivers {
         DriverContext context = context(site, time);
         List<BusPoller> pollers = new ArrayList<>();
         for (BusDef bus : site.buses()) {
-            List<PolledInstrument> instruments = new ArrayList<>();
-            for (InstrumentDef instrument : bus.instruments()) {
-                List<ChannelDef> channels = new ArrayList<>();
-                List<String> outputs = new ArrayList<>();
-                for (PointDef point : instrument.points()) {
-                    if (point.output()) {
-                        outputs.add(point.channel());
-                    } else {
-                        channels.add(context.channels().get(point.channel()));
-                    }
-                }
-                DriverFactory factory = catalog.find(instrument.driver()).orElseThrow();
-                instruments.add(new PolledInstrument(factory.create(instrument, context), channels, outputs));
-            }
-            pollers.add(new BusPoller(bus.id(), Transports.create(bus.transport()), instruments, time, sink,
-                    Backoff.DEFAULT));
+            pollers.add(poller(bus, context, catalog, time, sink, backoff));
         }
         return pollers;
     }
 
-    private static DriverContext context(SiteDef site, TimeSource time) {
+    /**
+     * One unstarted poller for one bus of a site that validated (a reload restarts only the buses that changed).
+     *
+     * @param context the site's {@link #context(SiteDef, TimeSource)}
+     */
+    public static BusPoller poller(BusDef bus, DriverContext context, DriverCatalog catalog, TimeSource time,
+            ReadingSink sink, Backoff backoff) {
+        List<PolledInstrument> instruments = new ArrayList<>();
+        for (InstrumentDef instrument : bus.instruments()) {
+            List<ChannelDef> channels = new ArrayList<>();
+            List<String> outputs = new ArrayList<>();
+            for (PointDef point : instrument.points()) {
+                if (point.output()) {
+                    outputs.add(point.channel());
+                } else {
+                    channels.add(context.channels().get(point.channel()));
+                }
+            }
+            DriverFactory factory = catalog.find(instrument.driver()).orElseThrow();
+            instruments.add(new PolledInstrument(factory.create(instrument, context), channels, outputs));
+        }
+        return new BusPoller(bus.id(), Transports.create(bus.transport()), instruments, time, sink, backoff);
+    }
+
+    /** The drivers' view of the site: its channels and outputs by id, and the program's clock. */
+    public static DriverContext context(SiteDef site, TimeSource time) {
         Map<String, ChannelDef> channels = new LinkedHashMap<>();
         site.channels().forEach(channel -> channels.put(channel.id(), channel));
         Map<String, OutputDef> outputs = new LinkedHashMap<>();
