@@ -28,7 +28,7 @@ class CheckCommandTest {
 
         assertThat(exit).isEqualTo(0);
         assertThat(out.toString()).isEqualTo("valid: site 'Harbour Hall low-temperature lab': 17 channels "
-                + "(12 measured, 5 derived), 2 outputs, 20 rules, 1 interlock from 1 rule file; 3 buses, "
+                + "(12 measured, 5 derived), 2 outputs, 22 rules, 1 interlock from 1 rule file; 3 buses, "
                 + "5 instruments" + System.lineSeparator());
         assertThat(err.toString()).isEmpty();
     }
