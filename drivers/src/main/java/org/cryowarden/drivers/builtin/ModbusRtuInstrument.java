@@ -23,7 +23,6 @@ import org.cryowarden.drivers.spi.WriteResult;
 import org.cryowarden.rules.Quality;
 import org.cryowarden.rules.Reading;
 import org.cryowarden.rules.Unit;
-import org.cryowarden.rules.model.ChannelDef;
 
 /**
  * One Modbus RTU slave: each point is read with its own request (function 01-04), writes use 05/06 (or 16 for
@@ -67,8 +66,7 @@ final class ModbusRtuInstrument implements InstrumentDriver {
         List<Reading> readings = new ArrayList<>(channels.size());
         for (String channel : channels) {
             ModbusPoint point = config.points().get(channel);
-            ChannelDef def = context.channels().get(channel);
-            Unit unit = def == null ? Unit.ONE : def.unit();
+            Unit unit = context.unitOf(channel);
             if (point == null || point.output()) {
                 readings.add(Reading.bad(channel, unit, context.time().wallNow(), "instrument '" + id
                         + "' has no input point for channel '" + channel + "'"));
