@@ -78,17 +78,14 @@ final class ModbusRtuInstrument implements InstrumentDriver {
     }
 
     private Reading read(ModbusPoint point, Unit unit, Transport transport) throws IOException {
-        ModbusRequest request = ModbusRequest.read(config.unit(), point.table().readFunction(), point.address(),
-                point.quantity());
-        ModbusReply reply = client(transport).transact(request, config.timeout(), config.retries()).reply();
+        ModbusReply reply = client(transport).transact(readRequest(point), config.timeout(), config.retries()).reply();
         counters.increment(reply.counterKey());
         if (!(reply instanceof ModbusReply.Values values)) {
             boolean silent = reply instanceof ModbusReply.Fault fault && fault.fault() == FrameFault.NO_REPLY;
             return new Reading(point.id(), Double.NaN, unit, context.time().wallNow(),
                     silent ? Quality.STALE : Quality.BAD, reply.reason());
         }
-        double raw = point.table().holdsBits() ? values.values()[0]
-                : RegisterCodec.decode(values.values(), 0, point.type(), point.order());
+        double raw = raw(point, values);
         if (!Double.isFinite(raw)) {
             counters.increment("not_a_number");
             return Reading.bad(point.id(), unit, context.time().wallNow(), "unit " + config.unit() + " register "
@@ -132,16 +129,14 @@ final class ModbusRtuInstrument implements InstrumentDriver {
         if (!reply.isOk()) {
             return WriteResult.failed(output, value, reply.reason());
         }
-        ModbusRequest readback = ModbusRequest.read(config.unit(), point.table().readFunction(), point.address(),
-                point.quantity());
-        ModbusReply back = modbus.transact(readback, config.timeout(), config.retries()).reply();
+        ModbusReply back = modbus.transact(readRequest(point), config.timeout(), config.retries()).reply();
         counters.increment(back.counterKey());
         if (!(back instanceof ModbusReply.Values values)) {
             return new WriteResult(output, value, OptionalDouble.empty(), false, "write confirmed but readback failed: "
                     + back.reason());
         }
-        double read = point.table().holdsBits() ? values.values()[0]
-                : RegisterCodec.decode(values.values(), 0, point.type(), point.order()) * point.scale() + point.offset();
+        double raw = raw(point, values);
+        double read = point.table().holdsBits() ? raw : raw * point.scale() + point.offset();
         double expected = point.table().holdsBits() ? (value != 0 ? 1 : 0) : value;
         double tolerance = point.type() == RegisterType.FLOAT32 ? Math.abs(expected) * 1e-6 + 1e-9
                 : Math.abs(point.scale()) / 2 + 1e-12;
@@ -156,6 +151,17 @@ final class ModbusRtuInstrument implements InstrumentDriver {
     @Override
     public Map<String, Long> counters() {
         return counters.snapshot();
+    }
+
+    /** The request that reads a point: its table's read function over its registers or bits. */
+    private ModbusRequest readRequest(ModbusPoint point) {
+        return ModbusRequest.read(config.unit(), point.table().readFunction(), point.address(), point.quantity());
+    }
+
+    /** The point's value as the slave holds it: a bit as 0/1, registers decoded but not yet scaled. */
+    private static double raw(ModbusPoint point, ModbusReply.Values values) {
+        return point.table().holdsBits() ? values.values()[0]
+                : RegisterCodec.decode(values.values(), 0, point.type(), point.order());
     }
 
     private ModbusClient client(Transport transport) {
