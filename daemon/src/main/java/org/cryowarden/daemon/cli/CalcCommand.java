@@ -113,6 +113,29 @@ final class CalcCommand implements Runnable {
         }
     }
 
+    /** {@code --r0} and the thermometer it gives, for both platinum-thermometer topics. */
+    static final class R0Option {
+
+        @Option(names = "--r0", paramLabel = "RESISTANCE", defaultValue = "100ohm",
+                description = "Resistance at 0 °C (default ${DEFAULT-VALUE}).")
+        String r0;
+
+        PlatinumResistanceThermometer thermometer() {
+            return new PlatinumResistanceThermometer(Quantity.parse(r0, Dimension.RESISTANCE).toBase());
+        }
+    }
+
+    /** The required {@code --fluid} of the topics about one cryogen's liquid (Oxygen's is optional, for --spill). */
+    static final class FluidOption {
+
+        @Option(names = "--fluid", required = true, paramLabel = "FLUID", description = "helium or nitrogen.")
+        String fluid;
+
+        Cryogen cryogen() {
+            return CalcCommand.cryogen(fluid);
+        }
+    }
+
     /** Runs a topic's body and turns bad input (parse errors, out-of-range values) into exit 2. */
     abstract static class Topic implements Callable<Integer> {
 
@@ -179,14 +202,12 @@ final class CalcCommand implements Runnable {
         @Parameters(paramLabel = "RESISTANCE", description = "Measured resistance, e.g. 138.51ohm.")
         String resistance;
 
-        @Option(names = "--r0", paramLabel = "RESISTANCE", defaultValue = "100ohm",
-                description = "Resistance at 0 °C (default ${DEFAULT-VALUE}).")
-        String r0;
+        @Mixin
+        R0Option r0;
 
         @Override
         int compute() {
-            PlatinumResistanceThermometer prt = new PlatinumResistanceThermometer(
-                    Quantity.parse(r0, Dimension.RESISTANCE).toBase());
+            PlatinumResistanceThermometer prt = r0.thermometer();
             double ohm = Quantity.parse(resistance, Dimension.RESISTANCE).toBase();
             double celsius = prt.temperature(ohm);
             Map<String, Object> values = new LinkedHashMap<>();
@@ -203,14 +224,12 @@ final class CalcCommand implements Runnable {
         @Parameters(paramLabel = "TEMPERATURE", description = "Temperature, e.g. -196C or 77K.")
         String temperature;
 
-        @Option(names = "--r0", paramLabel = "RESISTANCE", defaultValue = "100ohm",
-                description = "Resistance at 0 °C (default ${DEFAULT-VALUE}).")
-        String r0;
+        @Mixin
+        R0Option r0;
 
         @Override
         int compute() {
-            PlatinumResistanceThermometer prt = new PlatinumResistanceThermometer(
-                    Quantity.parse(r0, Dimension.RESISTANCE).toBase());
+            PlatinumResistanceThermometer prt = r0.thermometer();
             double celsius = Quantity.parse(temperature, Dimension.TEMPERATURE).in(Unit.CELSIUS);
             double ohm = prt.resistance(celsius);
             Map<String, Object> values = new LinkedHashMap<>();
@@ -223,8 +242,8 @@ final class CalcCommand implements Runnable {
     @Command(name = "boiloff", description = "Liquid boiled off and gas produced by a heat load.")
     static final class BoilOffTopic extends Topic {
 
-        @Option(names = "--fluid", required = true, paramLabel = "FLUID", description = "helium or nitrogen.")
-        String fluid;
+        @Mixin
+        FluidOption fluid;
 
         @Option(names = "--heat-load", required = true, paramLabel = "POWER", description = "Heat load, e.g. 500mW.")
         String heatLoad;
@@ -239,7 +258,7 @@ final class CalcCommand implements Runnable {
 
         @Override
         int compute() {
-            Cryogen cryogen = cryogen(fluid);
+            Cryogen cryogen = fluid.cryogen();
             double watts = Quantity.parse(heatLoad, Dimension.POWER).toBase();
             double kelvin = Quantity.parse(gasTemperature, Dimension.TEMPERATURE).toBase();
             Quantity pressure = Quantity.parse(gasPressure, Dimension.PRESSURE);
@@ -259,8 +278,8 @@ final class CalcCommand implements Runnable {
     @Command(name = "expansion", description = "Gas volume from a volume of boiling liquid.")
     static final class Expansion extends Topic {
 
-        @Option(names = "--fluid", required = true, paramLabel = "FLUID", description = "helium or nitrogen.")
-        String fluid;
+        @Mixin
+        FluidOption fluid;
 
         @Option(names = "--liquid", required = true, paramLabel = "VOLUME", description = "Liquid volume, e.g. 100L.")
         String liquid;
@@ -271,7 +290,7 @@ final class CalcCommand implements Runnable {
 
         @Override
         int compute() {
-            Cryogen cryogen = cryogen(fluid);
+            Cryogen cryogen = fluid.cryogen();
             double cubicMetres = Quantity.parse(liquid, Dimension.VOLUME).toBase();
             double kelvin = Quantity.parse(gasTemperature, Dimension.TEMPERATURE).toBase();
             double gas = GasExpansion.gasCubicMetres(cryogen, cubicMetres, kelvin, Quantity.STANDARD_ATMOSPHERE_PA);

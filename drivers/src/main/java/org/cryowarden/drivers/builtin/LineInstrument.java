@@ -18,7 +18,6 @@ import org.cryowarden.drivers.text.Printable;
 import org.cryowarden.drivers.text.TextExchange;
 import org.cryowarden.rules.Reading;
 import org.cryowarden.rules.Unit;
-import org.cryowarden.rules.model.ChannelDef;
 
 /**
  * A simple text device. In query mode each channel sends its query and matches the one reply line; in stream
@@ -60,7 +59,7 @@ final class LineInstrument implements InstrumentDriver {
         List<Reading> readings = new ArrayList<>(channels.size());
         TextExchange text = exchange(transport);
         for (String channel : channels) {
-            Unit unit = unit(channel);
+            Unit unit = context.unitOf(channel);
             TextPoint point = config.points().get(channel);
             if (point == null) {
                 readings.add(Reading.bad(channel, unit, context.time().wallNow(), "instrument '" + id
@@ -105,7 +104,7 @@ final class LineInstrument implements InstrumentDriver {
                     if (point == null) {
                         continue;
                     }
-                    Reading reading = match(point, unit(channel), line.text(), null, now);
+                    Reading reading = match(point, context.unitOf(channel), line.text(), null, now);
                     if (reading != null) {
                         latest.put(channel, reading);
                         failures.remove(channel);
@@ -115,7 +114,7 @@ final class LineInstrument implements InstrumentDriver {
                 counters.increment("oversized_line");
                 for (String channel : channels) {
                     if (!latest.containsKey(channel)) {
-                        failures.put(channel, Reading.bad(channel, unit(channel), now, "line longer than "
+                        failures.put(channel, Reading.bad(channel, context.unitOf(channel), now, "line longer than "
                                 + oversized.limit() + " bytes (" + oversized.droppedBytes() + " dropped)"));
                     }
                 }
@@ -129,7 +128,7 @@ final class LineInstrument implements InstrumentDriver {
                 reading = failures.get(channel);
             }
             if (reading == null) {
-                reading = TextReplies.failed(channel, unit(channel), now, last == null
+                reading = TextReplies.failed(channel, context.unitOf(channel), now, last == null
                         ? new TextExchange.Received.Timeout(Optional.empty()) : last,
                         "a line matching " + patternOf(channel), config.timeout(), counters);
             } else if (reading.quality().isGood()) {
@@ -181,11 +180,6 @@ final class LineInstrument implements InstrumentDriver {
     private String patternOf(String channel) {
         TextPoint point = config.points().get(channel);
         return point == null ? "(none)" : point.pattern().map(LinePattern::regex).orElse("(none)");
-    }
-
-    private Unit unit(String channel) {
-        ChannelDef def = context.channels().get(channel);
-        return def == null ? Unit.ONE : def.unit();
     }
 
     private TextExchange exchange(Transport transport) {

@@ -23,7 +23,6 @@ import org.cryowarden.drivers.spi.WriteResult;
 import org.cryowarden.rules.Quality;
 import org.cryowarden.rules.Reading;
 import org.cryowarden.rules.Unit;
-import org.cryowarden.rules.model.ChannelDef;
 
 /**
  * One Modbus RTU slave: each point is read with its own request (function 01-04), writes use 05/06 (or 16 for
@@ -67,8 +66,7 @@ final class ModbusRtuInstrument implements InstrumentDriver {
         List<Reading> readings = new ArrayList<>(channels.size());
         for (String channel : channels) {
             ModbusPoint point = config.points().get(channel);
-            ChannelDef def = context.channels().get(channel);
-            Unit unit = def == null ? Unit.ONE : def.unit();
+            Unit unit = context.unitOf(channel);
             if (point == null || point.output()) {
                 readings.add(Reading.bad(channel, unit, context.time().wallNow(), "instrument '" + id
                         + "' has no input point for channel '" + channel + "'"));
@@ -80,17 +78,14 @@ final class ModbusRtuInstrument implements InstrumentDriver {
     }
 
     private Reading read(ModbusPoint point, Unit unit, Transport transport) throws IOException {
-        ModbusRequest request = ModbusRequest.read(config.unit(), point.table().readFunction(), point.address(),
-                point.quantity());
-        ModbusReply reply = client(transport).transact(request, config.timeout(), config.retries()).reply();
+        ModbusReply reply = client(transport).transact(readRequest(point), config.timeout(), config.retries()).reply();
         counters.increment(reply.counterKey());
         if (!(reply instanceof ModbusReply.Values values)) {
             boolean silent = reply instanceof ModbusReply.Fault fault && fault.fault() == FrameFault.NO_REPLY;
             return new Reading(point.id(), Double.NaN, unit, context.time().wallNow(),
                     silent ? Quality.STALE : Quality.BAD, reply.reason());
         }
-        double raw = point.table().holdsBits() ? values.values()[0]
-                : RegisterCodec.decode(values.values(), 0, point.type(), point.order());
+        double raw = raw(point, values);
         if (!Double.isFinite(raw)) {
             counters.increment("not_a_number");
             return Reading.bad(point.id(), unit, context.time().wallNow(), "unit " + config.unit() + " register "
@@ -134,16 +129,14 @@ final class ModbusRtuInstrument implements InstrumentDriver {
         if (!reply.isOk()) {
             return WriteResult.failed(output, value, reply.reason());
         }
-        ModbusRequest readback = ModbusRequest.read(config.unit(), point.table().readFunction(), point.address(),
-                point.quantity());
-        ModbusReply back = modbus.transact(readback, config.timeout(), config.retries()).reply();
+        ModbusReply back = modbus.transact(readRequest(point), config.timeout(), config.retries()).reply();
         counters.increment(back.counterKey());
         if (!(back instanceof ModbusReply.Values values)) {
             return new WriteResult(output, value, OptionalDouble.empty(), false, "write confirmed but readback failed: "
                     + back.reason());
         }
-        double read = point.table().holdsBits() ? values.values()[0]
-                : RegisterCodec.decode(values.values(), 0, point.type(), point.order()) * point.scale() + point.offset();
+        double raw = raw(point, values);
+        double read = point.table().holdsBits() ? raw : raw * point.scale() + point.offset();
         double expected = point.table().holdsBits() ? (value != 0 ? 1 : 0) : value;
         double tolerance = point.type() == RegisterType.FLOAT32 ? Math.abs(expected) * 1e-6 + 1e-9
                 : Math.abs(point.scale()) / 2 + 1e-12;
@@ -158,6 +151,17 @@ final class ModbusRtuInstrument implements InstrumentDriver {
     @Override
     public Map<String, Long> counters() {
         return counters.snapshot();
+    }
+
+    /** The request that reads a point: its table's read function over its registers or bits. */
+    private ModbusRequest readRequest(ModbusPoint point) {
+        return ModbusRequest.read(config.unit(), point.table().readFunction(), point.address(), point.quantity());
+    }
+
+    /** The point's value as the slave holds it: a bit as 0/1, registers decoded but not yet scaled. */
+    private static double raw(ModbusPoint point, ModbusReply.Values values) {
+        return point.table().holdsBits() ? values.values()[0]
+                : RegisterCodec.decode(values.values(), 0, point.type(), point.order());
     }
 
     private ModbusClient client(Transport transport) {

@@ -22,7 +22,6 @@ import org.cryowarden.drivers.text.Printable;
 import org.cryowarden.drivers.text.TextExchange;
 import org.cryowarden.rules.Reading;
 import org.cryowarden.rules.Unit;
-import org.cryowarden.rules.model.ChannelDef;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 
@@ -78,8 +77,7 @@ final class ScpiInstrument implements InstrumentDriver {
     public List<Reading> poll(List<String> channels, Transport transport) throws IOException {
         List<Reading> readings = new ArrayList<>(channels.size());
         for (String channel : channels) {
-            ChannelDef def = context.channels().get(channel);
-            Unit unit = def == null ? Unit.ONE : def.unit();
+            Unit unit = context.unitOf(channel);
             TextPoint point = config.points().get(channel);
             if (point == null || point.output()) {
                 readings.add(Reading.bad(channel, unit, context.time().wallNow(), "instrument '" + id

@@ -9,7 +9,7 @@ import java.util.Objects;
  */
 public sealed interface ModbusReply {
 
-    /** True only for {@link Values} and {@link WriteConfirmed}. */
+    /** True only for a {@link Success}: {@link Values} and {@link WriteConfirmed}. */
     boolean isOk();
 
     /** Text for a reading's reason or an operator's terminal; empty when OK. */
@@ -18,8 +18,27 @@ public sealed interface ModbusReply {
     /** The counter key this outcome is counted under ("ok", "exception_response", or a {@link FrameFault} key). */
     String counterKey();
 
+    /** A reply that did what was asked: values read or a write confirmed; counted as "ok", with no reason. */
+    sealed interface Success extends ModbusReply {
+
+        @Override
+        default boolean isOk() {
+            return true;
+        }
+
+        @Override
+        default String reason() {
+            return "";
+        }
+
+        @Override
+        default String counterKey() {
+            return "ok";
+        }
+    }
+
     /** Coil/discrete states as 0/1, or register values 0-65535, in address order. */
-    record Values(ModbusRequest request, int[] values) implements ModbusReply {
+    record Values(ModbusRequest request, int[] values) implements Success {
         public Values {
             Objects.requireNonNull(request, "request");
             values = values.clone();
@@ -29,42 +48,12 @@ public sealed interface ModbusReply {
         public int[] values() {
             return values.clone();
         }
-
-        @Override
-        public boolean isOk() {
-            return true;
-        }
-
-        @Override
-        public String reason() {
-            return "";
-        }
-
-        @Override
-        public String counterKey() {
-            return "ok";
-        }
     }
 
     /** The slave echoed a write as the specification prescribes. */
-    record WriteConfirmed(ModbusRequest request) implements ModbusReply {
+    record WriteConfirmed(ModbusRequest request) implements Success {
         public WriteConfirmed {
             Objects.requireNonNull(request, "request");
-        }
-
-        @Override
-        public boolean isOk() {
-            return true;
-        }
-
-        @Override
-        public String reason() {
-            return "";
-        }
-
-        @Override
-        public String counterKey() {
-            return "ok";
         }
     }
 

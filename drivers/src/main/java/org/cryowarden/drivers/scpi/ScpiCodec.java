@@ -34,8 +34,12 @@ public final class ScpiCodec {
      * an unterminated string). A trailing {@code ;} is allowed.
      */
     public static Optional<List<ScpiCommand>> parseProgramMessage(String line) {
+        Optional<List<String>> units = splitOutsideQuotes(line.strip(), ';');
+        if (units.isEmpty()) {
+            return Optional.empty();
+        }
         List<ScpiCommand> commands = new ArrayList<>();
-        for (String unit : splitOutsideQuotes(line.strip(), ';')) {
+        for (String unit : units.get()) {
             String trimmed = unit.strip();
             if (trimmed.isEmpty()) {
                 continue;
@@ -50,22 +54,18 @@ public final class ScpiCodec {
             }
             List<String> parameters = new ArrayList<>();
             if (!rest.isEmpty()) {
-                for (String parameter : splitOutsideQuotes(rest, ',')) {
+                // The header holds no quote (checked above) and every quote of the line closes, so these do too.
+                for (String parameter : splitOutsideQuotes(rest, ',').orElseThrow()) {
                     parameters.add(parameter.strip());
                 }
             }
-            if (parameters.contains(null)) {
-                return Optional.empty();
-            }
             commands.add(new ScpiCommand(name, query, parameters));
-        }
-        if (hasOpenQuote(line)) {
-            return Optional.empty();
         }
         return Optional.of(commands);
     }
 
-    private static List<String> splitOutsideQuotes(String text, char separator) {
+    /** The parts of {@code text} between separators outside quotes, or empty when a quote is left open. */
+    private static Optional<List<String>> splitOutsideQuotes(String text, char separator) {
         List<String> parts = new ArrayList<>();
         StringBuilder current = new StringBuilder();
         char quote = 0;
@@ -85,22 +85,7 @@ public final class ScpiCodec {
             current.append(c);
         }
         parts.add(current.toString());
-        return parts;
-    }
-
-    private static boolean hasOpenQuote(String text) {
-        char quote = 0;
-        for (int i = 0; i < text.length(); i++) {
-            char c = text.charAt(i);
-            if (quote != 0) {
-                if (c == quote) {
-                    quote = 0;
-                }
-            } else if (c == '"' || c == '\'') {
-                quote = c;
-            }
-        }
-        return quote != 0;
+        return quote == 0 ? Optional.of(parts) : Optional.empty();
     }
 
     private static int indexOfWhitespace(String text) {

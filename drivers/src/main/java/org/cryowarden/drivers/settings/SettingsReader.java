@@ -4,7 +4,6 @@ import java.time.Duration;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
-import java.util.Locale;
 import java.util.Map;
 import java.util.Objects;
 import java.util.Optional;
@@ -12,6 +11,7 @@ import java.util.OptionalDouble;
 import java.util.OptionalInt;
 import org.cryowarden.rules.ConfigProblem;
 import org.cryowarden.rules.DurationSyntax;
+import org.cryowarden.rules.NameMatch;
 import org.cryowarden.rules.SourcePosition;
 import org.cryowarden.rules.config.ConfigNode;
 
@@ -55,7 +55,7 @@ public final class SettingsReader {
         List<String> names = Arrays.asList(allowed);
         for (ConfigNode.Entry entry : mapping.entries()) {
             if (!names.contains(entry.key())) {
-                String hint = DidYouMean.closest(entry.key(), names).map(c -> "; did you mean '" + c + "'?")
+                String hint = NameMatch.closest(entry.key(), names).map(c -> "; did you mean '" + c + "'?")
                         .orElse("; expected one of " + String.join(", ", names));
                 problems.add(new ConfigProblem(entry.keyPosition(),
                         "unknown key '" + entry.key() + "' in " + what + hint));
@@ -145,7 +145,7 @@ public final class SettingsReader {
         if (value == null) {
             List<String> names = new ArrayList<>(options.keySet());
             names.sort(null);
-            String hint = DidYouMean.closest(text.get().strip().toLowerCase(Locale.ROOT), names)
+            String hint = NameMatch.closest(text.get().strip(), names)
                     .map(c -> "; did you mean '" + c + "'?").orElse("");
             problems.add(new ConfigProblem(position(key), key + " in " + what + " must be one of "
                     + String.join(", ", names) + ", got '" + text.get() + "'" + hint));

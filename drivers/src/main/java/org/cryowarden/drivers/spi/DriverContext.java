@@ -3,6 +3,7 @@ package org.cryowarden.drivers.spi;
 import java.util.Map;
 import java.util.Objects;
 import org.cryowarden.rules.TimeSource;
+import org.cryowarden.rules.Unit;
 import org.cryowarden.rules.model.ChannelDef;
 import org.cryowarden.rules.model.OutputDef;
 
@@ -17,5 +18,11 @@ public record DriverContext(Map<String, ChannelDef> channels, Map<String, Output
         channels = Map.copyOf(channels);
         outputs = Map.copyOf(outputs);
         Objects.requireNonNull(time, "time");
+    }
+
+    /** The unit of a site channel, or {@link Unit#ONE} for a channel the site does not define. */
+    public Unit unitOf(String channel) {
+        ChannelDef def = channels.get(channel);
+        return def == null ? Unit.ONE : def.unit();
     }
 }

@@ -8,6 +8,7 @@ import java.util.Set;
 import org.cryowarden.rules.ConfigException;
 import org.cryowarden.rules.ConfigProblem;
 import org.cryowarden.rules.Dimension;
+import org.cryowarden.rules.NameMatch;
 import org.cryowarden.rules.Quantity;
 import org.cryowarden.rules.SourcePosition;
 import org.cryowarden.rules.config.ConfigNode;
@@ -108,41 +109,14 @@ final class NodeProblems {
         }
     }
 
+    /** A key that starts a longer allowed one ("rate" for "rate_per_h"), else the project's closest name. */
     private static String nearest(String key, Set<String> allowed) {
         String lower = key.toLowerCase(Locale.ROOT);
-        for (String candidate : allowed.stream().sorted().toList()) {
-            if (lower.length() >= 3 && candidate.startsWith(lower)) {
-                return " (did you mean '" + candidate + "'?)";
-            }
-        }
-        String best = null;
-        int bestDistance = Integer.MAX_VALUE;
-        for (String candidate : allowed.stream().sorted().toList()) {
-            int distance = distance(key.toLowerCase(Locale.ROOT), candidate);
-            if (distance < bestDistance) {
-                best = candidate;
-                bestDistance = distance;
-            }
-        }
-        return best != null && bestDistance <= Math.min(2, key.length() / 3) ? " (did you mean '" + best + "'?)" : "";
-    }
-
-    private static int distance(String a, String b) {
-        int[] previous = new int[b.length() + 1];
-        int[] current = new int[b.length() + 1];
-        for (int j = 0; j <= b.length(); j++) {
-            previous[j] = j;
-        }
-        for (int i = 1; i <= a.length(); i++) {
-            current[0] = i;
-            for (int j = 1; j <= b.length(); j++) {
-                int cost = a.charAt(i - 1) == b.charAt(j - 1) ? 0 : 1;
-                current[j] = Math.min(previous[j - 1] + cost, Math.min(previous[j] + 1, current[j - 1] + 1));
-            }
-            int[] swap = previous;
-            previous = current;
-            current = swap;
-        }
-        return previous[b.length()];
+        List<String> sorted = allowed.stream().sorted().toList();
+        Optional<String> prefixed = lower.length() >= 3
+                ? sorted.stream().filter(candidate -> candidate.startsWith(lower)).findFirst()
+                : Optional.empty();
+        return prefixed.or(() -> NameMatch.closest(key, sorted)).map(best -> " (did you mean '" + best + "'?)")
+                .orElse("");
     }
 }

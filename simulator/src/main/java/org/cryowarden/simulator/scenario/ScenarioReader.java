@@ -23,6 +23,7 @@ import org.cryowarden.drivers.text.Terminator;
 import org.cryowarden.rules.ConfigException;
 import org.cryowarden.rules.ConfigProblem;
 import org.cryowarden.rules.DurationSyntax;
+import org.cryowarden.rules.NameMatch;
 import org.cryowarden.rules.Quantity;
 import org.cryowarden.rules.SourcePosition;
 import org.cryowarden.rules.Unit;
@@ -869,7 +870,7 @@ public final class ScenarioReader {
         if (kind.isEmpty()) {
             List<String> names = java.util.Arrays.stream(FaultKind.values()).map(FaultKind::configName).toList();
             r.problem(r.position("kind"), "kind in " + what + " must be one of " + String.join(", ", names)
-                    + ", got '" + text + "'" + Names.closest(text.strip(), names).map(c -> "; did you mean '" + c
+                    + ", got '" + text + "'" + NameMatch.closest(text.strip(), names).map(c -> "; did you mean '" + c
                     + "'?").orElse(""));
         }
         return kind;
@@ -939,7 +940,7 @@ public final class ScenarioReader {
     }
 
     private static String hint(String typed, java.util.Collection<String> known) {
-        Optional<String> close = Names.closest(typed.strip(), known);
+        Optional<String> close = NameMatch.closest(typed.strip(), known);
         if (close.isPresent()) {
             return "; did you mean '" + close.get() + "'?";
         }
