@@ -317,7 +317,8 @@ final class Wiring {
             if (timeout <= 0) {
                 throw refuse(rule, "the stale timeout must be positive, got " + Texts.nanos(timeout));
             }
-            StaleEvaluator evaluator = new StaleEvaluator(alarm, core, stale.channel(), timeout);
+            StaleEvaluator evaluator = new StaleEvaluator(alarm, core, stale.channel(), timeout,
+                    Math.min(timeout, staleAfter.get(stale.channel())));
             staleRules.add(evaluator);
             return evaluator;
         }

@@ -61,6 +61,24 @@ class StaleRuleTest {
     }
 
     @Test
+    void missedReplyWithinTheStaleTimeoutDoesNotRaiseTheFault() {
+        Site site = new Site().channel("o2_a", Unit.PERCENT_VOLUME, Duration.ofSeconds(1), Duration.ofSeconds(10),
+                        Optional.empty())
+                .rule(new StaleRule("o2_a_fault", "o2_a", Optional.empty(), alarm(Priority.HIGH, "Oxygen sensor A fault"),
+                        at("o2_a_fault")));
+        site.read("o2_a", 20.9, Unit.PERCENT_VOLUME);
+        site.advance(Duration.ofSeconds(2));
+
+        assertThat(site.engine().onReading(Reading.stale("o2_a", Unit.PERCENT_VOLUME, site.clock.wallNow(),
+                "no reply within 500ms"))).isEmpty();
+        site.tickFor(Duration.ofSeconds(7));
+        assertThat(site.engine().onReading(Reading.stale("o2_a", Unit.PERCENT_VOLUME, site.clock.wallNow(),
+                "no reply within 500ms"))).isEmpty();
+        assertThat(site.advance(Duration.ofSeconds(1))).containsExactly(
+                "18:00:10 o2_a_fault normal -> active-unacknowledged: no GOOD reading of o2_a for 10s");
+    }
+
+    @Test
     void readingOutsideTheValidRangeRaisesTheFaultWithTheRangeInTheCause() {
         Site site = new Site().channel("o2_a", Unit.PERCENT_VOLUME, Duration.ofSeconds(1), Duration.ofSeconds(5),
                         Optional.of(new ValueRange(0, 25)))
