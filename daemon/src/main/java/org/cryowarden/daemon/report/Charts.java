@@ -90,6 +90,7 @@ final class Charts {
             marker.setLabelPaint(Palette.LIMIT);
             marker.setLabelAnchor(RectangleAnchor.TOP_RIGHT);
             marker.setLabelTextAnchor(TextAnchor.BOTTOM_RIGHT);
+            marker.setLabelBackgroundColor(Palette.LABEL_BACKGROUND);
             plot.addRangeMarker(marker, Layer.FOREGROUND);
         }
         for (AlarmStatistics alarm : alarms) {
@@ -177,6 +178,7 @@ final class Charts {
         benchmark.setLabelPaint(Palette.LIMIT);
         benchmark.setLabelAnchor(RectangleAnchor.TOP_LEFT);
         benchmark.setLabelTextAnchor(TextAnchor.BOTTOM_LEFT);
+        benchmark.setLabelBackgroundColor(Palette.LABEL_BACKGROUND);
         plot.addRangeMarker(benchmark, Layer.FOREGROUND);
         for (FloodPeriod flood : floods) {
             double end = Math.max(flood.end().toEpochMilli(), flood.start().toEpochMilli() + 60_000);

@@ -14,6 +14,7 @@ final class Palette {
     static final Color LIMIT = new Color(0xa6, 0x6a, 0x1e);
     static final Color ALARM_SHADE = new Color(0x8a, 0x4f, 0x7d, 0x38);
     static final Color FLOOD_SHADE = new Color(0x8a, 0x4f, 0x7d, 0x50);
+    static final Color LABEL_BACKGROUND = new Color(255, 255, 255, 200);
     static final Color BARS = new Color(0x5b, 0x7c, 0x6e);
 
     private Palette() {

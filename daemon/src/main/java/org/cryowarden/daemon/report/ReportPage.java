@@ -55,7 +55,7 @@ public final class ReportPage {
                 .append("</title><style>").append(STYLE).append("</style></head><body><main>\n");
         page.append("<h1>").append(esc(title)).append("</h1>\n");
         page.append("<p class=\"meta\">Period ").append(time.format(window.from())).append(" to ")
-                .append(time.format(window.until())).append(" (").append(esc(zone.getId())).append(", ")
+                .append(time.format(window.until())).append(" (").append(esc(zoneName())).append(", ")
                 .append(Numbers.duration(window.length())).append(")</p>\n");
         page.append("<p class=\"meta\">Journal ").append(esc(report.night().journalFile().toString()))
                 .append("; generated ").append(time.format(generatedAt)).append("</p>\n");
@@ -97,6 +97,10 @@ public final class ReportPage {
                 .append("<p class=\"note\">Made by cryowarden from the journal's event log and minute aggregates.</p>")
                 .append("</footer>\n</body></html>\n");
         return page.toString();
+    }
+
+    private String zoneName() {
+        return zone.normalized().equals(java.time.ZoneOffset.UTC) ? "UTC" : zone.getId();
     }
 
     private void tiles(StringBuilder page) {

@@ -41,7 +41,7 @@ public record ReportWindow(Instant from, Instant until) {
             return LocalDateTime.parse(trimmed).atZone(zone).toInstant();
         } catch (DateTimeParseException e) {
             throw new IllegalArgumentException("'" + text + "' is not a date and time; write it as 2025-11-14T22:00"
-                    + " (in " + zone.getId() + ") or 2025-11-14T22:00:00Z");
+                    + " (in " + (zone.normalized().equals(java.time.ZoneOffset.UTC) ? "UTC" : zone.getId()) + ") or 2025-11-14T22:00:00Z");
         }
     }
 }
