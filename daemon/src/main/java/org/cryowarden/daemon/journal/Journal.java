@@ -315,6 +315,24 @@ public final class Journal implements AutoCloseable {
         }
     }
 
+    /** Every channel with recorded minutes, by id: what the morning report plots when no site file is given. */
+    public List<String> aggregateChannels() throws JournalException {
+        synchronized (aggregateLock) {
+            try (Statement statement = aggregatesConnection.createStatement();
+                 ResultSet rows = statement.executeQuery(
+                         "SELECT DISTINCT channel FROM minute_aggregate ORDER BY channel")) {
+                List<String> channels = new ArrayList<>();
+                while (rows.next()) {
+                    channels.add(rows.getString(1));
+                }
+                return channels;
+            } catch (SQLException e) {
+                throw new JournalException("journal " + file + ": could not read the channels of the minute aggregates: "
+                        + SqliteProblems.explain(e), e);
+            }
+        }
+    }
+
     /** Writes the aggregates held in memory and closes both connections. Idempotent. */
     @Override
     public void close() throws JournalException {
