@@ -3,9 +3,12 @@ package org.cryowarden.daemon.report;
 import java.awt.BasicStroke;
 import java.awt.Color;
 import java.awt.Font;
-import java.awt.geom.Rectangle2D;
+import java.awt.image.BufferedImage;
+import java.io.IOException;
+import java.io.UncheckedIOException;
 import java.time.ZoneId;
 import java.util.ArrayList;
+import java.util.Base64;
 import java.util.List;
 import java.util.Locale;
 import java.util.Set;
@@ -16,6 +19,7 @@ import org.cryowarden.daemon.replay.AlarmStatistics;
 import org.cryowarden.daemon.replay.FloodPeriod;
 import org.cryowarden.daemon.replay.RateInterval;
 import org.cryowarden.rules.model.Priority;
+import org.jfree.chart.ChartUtils;
 import org.jfree.chart.JFreeChart;
 import org.jfree.chart.axis.DateAxis;
 import org.jfree.chart.axis.LogAxis;
@@ -36,13 +40,8 @@ import org.jfree.data.xy.XYIntervalSeries;
 import org.jfree.data.xy.XYIntervalSeriesCollection;
 import org.jfree.data.xy.YIntervalSeries;
 import org.jfree.data.xy.YIntervalSeriesCollection;
-import org.jfree.svg.SVGGraphics2D;
-import org.jfree.svg.ViewBox;
 
-/**
- * The report's plots, built with JFreeChart and drawn into SVG by JFreeSVG. Each SVG gets its own prefix for the
- * ids of its clip paths and gradients, so that several can sit inline in one page.
- */
+/** The report's plots, built with JFreeChart and embedded in the page as PNG images. */
 final class Charts {
 
     static final int WIDTH = 1200;
@@ -188,12 +187,22 @@ final class Charts {
         return chart("Alarm rate", plot, true);
     }
 
-    /** The chart drawn as an inline {@code <svg>} element that scales to its container's width. */
-    static String svg(JFreeChart chart, int height, String idPrefix) {
-        SVGGraphics2D g = new SVGGraphics2D(WIDTH, height);
-        g.setDefsKeyPrefix(idPrefix + "-");
-        chart.draw(g, new Rectangle2D.Double(0, 0, WIDTH, height));
-        return g.getSVGElement(idPrefix, false, new ViewBox(0, 0, WIDTH, height), null, null);
+    /**
+     * The chart drawn as a PNG embedded in an {@code <img>} (a data URI), so the page stays one self-contained
+     * file. Drawn at twice the size for sharp text on high-density screens; the page scales it to its width.
+     * JFreeChart's own PNG encoder is used: an SVG writer would add a GPL-licensed library to the jar.
+     */
+    static String image(JFreeChart chart, int height, String id, String description) {
+        BufferedImage image = chart.createBufferedImage(WIDTH * 2, height * 2, WIDTH, height, null);
+        byte[] png;
+        try {
+            png = ChartUtils.encodeAsPNG(image, false, 9);
+        } catch (IOException e) {
+            throw new UncheckedIOException("cannot encode the plot " + id + " as PNG", e);
+        }
+        return "<img id='" + id + "' width='" + WIDTH + "' height='" + height + "' alt='"
+                + description.replace("&", "&amp;").replace("'", "&#39;").replace("<", "&lt;")
+                + "' src='data:image/png;base64," + Base64.getEncoder().encodeToString(png) + "'>";
     }
 
     private static JFreeChart chart(String title, XYPlot plot, boolean legend) {

@@ -12,7 +12,7 @@ import org.cryowarden.daemon.journal.MinuteAggregate;
 import org.cryowarden.daemon.replay.FloodPeriod;
 
 /**
- * Writes a {@link MorningReport} as one self-contained HTML page: inline CSS, inline SVG plots, no script and no
+ * Writes a {@link MorningReport} as one self-contained HTML page: inline CSS, plots as embedded PNG images, no script and no
  * external resource, so it can be mailed or archived as one file.
  */
 public final class ReportPage {
@@ -31,7 +31,7 @@ public final class ReportPage {
             border-bottom:1px solid #e2e3e7}th{background:#eef0f3}td.n{text-align:right;font-variant-numeric:tabular-nums}
             .tiles{display:flex;flex-wrap:wrap;gap:10px;margin:12px 0}.tile{border:1px solid #d5d8de;padding:8px 12px;
             min-width:150px}.tile b{display:block;font-size:20px}.note{color:#5d6270;font-size:13px}
-            figure{margin:10px 0 16px}figure svg{width:100%;height:auto;display:block}
+            figure{margin:10px 0 16px}figure img{width:100%;height:auto;display:block}figcaption{font-size:12px;color:#555}
             footer{max-width:1240px;margin:0 auto;padding:12px 24px 24px;background:#fff;border-top:2px solid #a66a1e;
             font-size:13px}.low{color:#8a2d2d;font-weight:bold}
             """;
@@ -67,7 +67,8 @@ public final class ReportPage {
             page.append("<p class=\"note\">No alarm was annunciated in the period.</p>\n");
         } else {
             int height = 110 + 30 * report.analysis().alarms().size();
-            figure(page, Charts.svg(Charts.timeline(report.analysis().alarms(), window, zone), height, "timeline"));
+            figure(page, Charts.image(Charts.timeline(report.analysis().alarms(), window, zone), height, "timeline",
+                    "Alarm timeline: one row per alarm, active periods coloured by priority"), "");
         }
         acknowledgements(page);
         progress.accept("drawing the alarm rate");
@@ -88,9 +89,10 @@ public final class ReportPage {
             if (!channel.description().isEmpty()) {
                 page.append("<p class=\"note\">").append(esc(channel.description())).append("</p>");
             }
-            figure(page, Charts.svg(Charts.channel(channel, minutes, report.analysis().alarms(),
+            String limits = limitsText(channel);
+            figure(page, Charts.image(Charts.channel(channel, minutes, report.analysis().alarms(),
                     report.alarmLinks().getOrDefault(channel.id(), java.util.Set.of()), window, zone), 300,
-                    "ch" + i));
+                    "ch" + i, "Plot of " + channel.id() + (limits.isEmpty() ? "" : "; " + limits)), limits);
             page.append("</section>\n");
         }
         page.append("</main>\n<footer><p><b>Caution.</b> ").append(esc(CAUTION)).append("</p>")
@@ -145,8 +147,8 @@ public final class ReportPage {
         page.append("<h2 id=\"rate\">Alarms per ").append(esc(words)).append("</h2>\n<p class=\"note\">An alarm flood"
                 + " is more than ").append(above).append(" alarms in ").append(esc(words))
                 .append(" (the EEMUA 191 benchmark); flood periods are shaded.</p>\n");
-        figure(page, Charts.svg(Charts.rate(report.analysis().rate(), report.analysis().floods(), above, words,
-                report.night().window(), zone), 300, "rate"));
+        figure(page, Charts.image(Charts.rate(report.analysis().rate(), report.analysis().floods(), above, words,
+                report.night().window(), zone), 300, "rate", "Alarms per " + words + " with flood periods shaded"), "");
         List<FloodPeriod> floods = report.analysis().floods();
         if (floods.isEmpty()) {
             page.append("<p>No alarm flood in the period.</p>\n");
@@ -236,8 +238,21 @@ public final class ReportPage {
         page.append("<div class=\"tile\"><b>").append(esc(value)).append("</b>").append(esc(label)).append("</div>");
     }
 
-    private static void figure(StringBuilder page, String svg) {
-        page.append("<figure>").append(svg).append("</figure>\n");
+    /** The setpoints drawn on a channel's plot, in words, so they can be read (and searched) without the image. */
+    private static String limitsText(ChannelInfo channel) {
+        List<String> labels = new java.util.ArrayList<>();
+        for (ChannelLimit limit : channel.limits()) {
+            labels.add(limit.label());
+        }
+        return labels.isEmpty() ? "" : "Setpoints: " + String.join("; ", labels);
+    }
+
+    private static void figure(StringBuilder page, String image, String caption) {
+        page.append("<figure>").append(image);
+        if (!caption.isEmpty()) {
+            page.append("<figcaption>").append(esc(caption)).append("</figcaption>");
+        }
+        page.append("</figure>\n");
     }
 
     /** Whole seconds, e.g. "181 s": the form the acknowledgement figures are compared in. */
