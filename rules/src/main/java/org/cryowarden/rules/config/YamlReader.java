@@ -333,7 +333,10 @@ public final class YamlReader {
                 } else if (tag.equals(Tag.BOOL)) {
                     found = "the boolean " + scalar.getValue() + " (quote it if it is meant as text)";
                 } else {
-                    // An explicitly tagged key; the tag itself is reported by checkTag.
+                    // An explicitly tagged key: the key and its value are dropped, so the tag must be reported.
+                    if (report) {
+                        checkTag(keyNode, keyPosition);
+                    }
                     return Optional.empty();
                 }
             } else {
