@@ -1,0 +1,34 @@
+package org.cryowarden.simulator.scenario;
+
+import static org.assertj.core.api.Assertions.assertThat;
+
+import com.code_intelligence.jazzer.junit.FuzzTest;
+import java.nio.charset.StandardCharsets;
+import java.util.concurrent.TimeUnit;
+import org.cryowarden.rules.ConfigException;
+import org.cryowarden.rules.ConfigProblem;
+import org.junit.jupiter.api.Timeout;
+
+/**
+ * Coverage-guided fuzzing with Jazzer of the scenario reader over arbitrary text: a scenario is read or
+ * refused with a {@link ConfigException} whose every problem names the file and says what is wrong; no other
+ * exception and no hang (each input has 10 s).
+ */
+class ScenarioFuzzTest {
+
+    @Timeout(value = 10, unit = TimeUnit.SECONDS, threadMode = Timeout.ThreadMode.SEPARATE_THREAD)
+    @FuzzTest(maxDuration = "10s")
+    void readerReadsOrRefusesAnyText(byte[] input) {
+        String text = new String(input, StandardCharsets.UTF_8);
+        try {
+            Scenario scenario = ScenarioReader.read(text, "fuzz-scenario.yaml");
+            assertThat(scenario).isNotNull();
+        } catch (ConfigException refused) {
+            assertThat(refused.problems()).isNotEmpty();
+            for (ConfigProblem problem : refused.problems()) {
+                assertThat(problem.position().file()).isEqualTo("fuzz-scenario.yaml");
+                assertThat(problem.message()).isNotBlank();
+            }
+        }
+    }
+}
