@@ -162,6 +162,10 @@ public final class YamlReader {
         } catch (YamlEngineException e) {
             problems.add(new ConfigProblem(new SourcePosition(label, 0, 0), "cannot read YAML: " + e.getMessage()));
             throw new ConfigException(problems);
+        } catch (IllegalArgumentException e) {
+            // SnakeYAML Engine's composer throws this, without a mark, for a tag it cannot hold (e.g. "!%A").
+            problems.add(new ConfigProblem(new SourcePosition(label, 0, 0), "cannot read YAML: " + e.getMessage()));
+            throw new ConfigException(problems);
         }
     }
 

@@ -9,23 +9,20 @@ import java.nio.charset.StandardCharsets;
 import java.nio.file.Path;
 import java.util.Arrays;
 import java.util.List;
-import java.util.concurrent.TimeUnit;
 import org.cryowarden.rules.ConfigException;
 import org.cryowarden.rules.model.RuleSet;
 import org.cryowarden.rules.model.SiteDef;
-import org.junit.jupiter.api.Timeout;
 
 /**
  * Coverage-guided fuzzing with Jazzer of the YAML reader and the site and rule-set loaders over arbitrary
  * bytes (invalid UTF-8 included): each file is either loaded or refused with a {@link ConfigException} whose
- * every problem is positioned in that file; no other exception, no hang (each input has 10 s), and a read
- * tree stays within the reader's nesting and alias-expansion limits.
+ * every problem is positioned in that file; no other exception, no hang (a fuzzing run gives each input 10 s
+ * with -timeout=10), and a read tree stays within the reader's nesting and alias-expansion limits.
  */
 class YamlFuzzTest {
 
     private static final Path FOLDER = ConfigFuzzing.folder("cryowarden-yaml-fuzz");
 
-    @Timeout(value = 10, unit = TimeUnit.SECONDS, threadMode = Timeout.ThreadMode.SEPARATE_THREAD)
     @FuzzTest(maxDuration = "10s")
     void readerReadsOrRefusesAnyBytes(byte[] input) {
         Path file = ConfigFuzzing.write(FOLDER.resolve("fuzz.yaml"), input);
@@ -44,7 +41,6 @@ class YamlFuzzTest {
         }
     }
 
-    @Timeout(value = 10, unit = TimeUnit.SECONDS, threadMode = Timeout.ThreadMode.SEPARATE_THREAD)
     @FuzzTest(maxDuration = "10s")
     void siteLoaderLoadsOrRefusesAnyBytes(byte[] input) {
         Path file = ConfigFuzzing.write(FOLDER.resolve("fuzz-site.yaml"), input);
@@ -56,7 +52,6 @@ class YamlFuzzTest {
         }
     }
 
-    @Timeout(value = 10, unit = TimeUnit.SECONDS, threadMode = Timeout.ThreadMode.SEPARATE_THREAD)
     @FuzzTest(maxDuration = "10s")
     void ruleSetLoaderLoadsOrRefusesAnyBytes(byte[] input) {
         Path file = ConfigFuzzing.write(FOLDER.resolve("fuzz-rules.yaml"), input);
@@ -72,7 +67,6 @@ class YamlFuzzTest {
      * A site file and a rule-set file checked together: the input is cut at its first NUL byte (a site
      * alone when there is none), so the cross-file checks (unknown channels, outputs) see both.
      */
-    @Timeout(value = 10, unit = TimeUnit.SECONDS, threadMode = Timeout.ThreadMode.SEPARATE_THREAD)
     @FuzzTest(maxDuration = "10s")
     void configurationLoaderLoadsOrRefusesAnySiteAndRules(byte[] input) {
         int cut = 0;

@@ -32,6 +32,12 @@ class YamlHardeningTest {
     }
 
     @Test
+    void tagTheLibraryCannotHoldIsAProblemNotAnException() {
+        // Found by YamlFuzzTest: SnakeYAML Engine threw an unmarked IllegalArgumentException for "!%A".
+        assertProblems("!%A", "t.yaml: cannot read YAML: Tag must not contain leading or trailing spaces.");
+    }
+
+    @Test
     void verbatimJavaObjectTagIsRefused() {
         assertProblems("a: !<tag:yaml.org,2002:java/object:java.lang.ProcessBuilder> [sh, -c, id]\n",
                 "t.yaml:1:4: explicit YAML tags are not supported, found '!!java/object:java.lang.ProcessBuilder"

@@ -6,12 +6,10 @@ import static org.assertj.core.api.Assertions.within;
 import com.code_intelligence.jazzer.junit.FuzzTest;
 import java.nio.charset.StandardCharsets;
 import java.util.Arrays;
-import java.util.concurrent.TimeUnit;
 import org.cryowarden.rules.ConfigException;
 import org.cryowarden.rules.ConfigProblem;
 import org.cryowarden.rules.Unit;
 import org.cryowarden.rules.config.YamlReader;
-import org.junit.jupiter.api.Timeout;
 
 /**
  * Coverage-guided fuzzing with Jazzer of the physics input files: ODH room files and calibration tables (YAML
@@ -20,7 +18,6 @@ import org.junit.jupiter.api.Timeout;
  */
 class PhysicsFilesFuzzTest {
 
-    @Timeout(value = 10, unit = TimeUnit.SECONDS, threadMode = Timeout.ThreadMode.SEPARATE_THREAD)
     @FuzzTest(maxDuration = "10s")
     void roomReaderReadsOrRefusesAnyText(byte[] input) {
         String text = new String(input, StandardCharsets.UTF_8);
@@ -32,7 +29,6 @@ class PhysicsFilesFuzzTest {
         }
     }
 
-    @Timeout(value = 10, unit = TimeUnit.SECONDS, threadMode = Timeout.ThreadMode.SEPARATE_THREAD)
     @FuzzTest(maxDuration = "10s")
     void calibrationYamlReadsOrRefusesAnyText(byte[] input) {
         String text = new String(input, StandardCharsets.UTF_8);
@@ -44,7 +40,6 @@ class PhysicsFilesFuzzTest {
     }
 
     /** Byte 0 picks the interpolation, the rest is the CSV text (raw in ohm, value in kelvin). */
-    @Timeout(value = 10, unit = TimeUnit.SECONDS, threadMode = Timeout.ThreadMode.SEPARATE_THREAD)
     @FuzzTest(maxDuration = "10s")
     void calibrationCsvReadsOrRefusesAnyText(byte[] input) {
         if (input.length == 0) {

@@ -4,19 +4,16 @@ import static org.assertj.core.api.Assertions.assertThat;
 
 import com.code_intelligence.jazzer.junit.FuzzTest;
 import java.nio.charset.StandardCharsets;
-import java.util.concurrent.TimeUnit;
 import org.cryowarden.rules.ConfigException;
 import org.cryowarden.rules.ConfigProblem;
-import org.junit.jupiter.api.Timeout;
 
 /**
  * Coverage-guided fuzzing with Jazzer of the scenario reader over arbitrary text: a scenario is read or
  * refused with a {@link ConfigException} whose every problem names the file and says what is wrong; no other
- * exception and no hang (each input has 10 s).
+ * exception and no hang (a fuzzing run gives each input 10 s: -timeout=10).
  */
 class ScenarioFuzzTest {
 
-    @Timeout(value = 10, unit = TimeUnit.SECONDS, threadMode = Timeout.ThreadMode.SEPARATE_THREAD)
     @FuzzTest(maxDuration = "10s")
     void readerReadsOrRefusesAnyText(byte[] input) {
         String text = new String(input, StandardCharsets.UTF_8);
