@@ -36,7 +36,10 @@ public final class DurationSyntax {
                 position++;
                 continue;
             }
-            if (!matcher.find(position) || matcher.start() != position) {
+            // lookingAt on a region, not find(position): find scans every later start, quadratic in a long
+            // run of digits without a unit.
+            matcher.region(position, compact.length());
+            if (!matcher.lookingAt()) {
                 throw new IllegalArgumentException("'" + text + "' is not a duration: expected a number and one of "
                         + "ms, s, min, h, d, e.g. 30s, 5min, 2h or 1h30min");
             }

@@ -14,8 +14,9 @@ public record Quantity(double value, Unit unit) {
     /** Standard atmosphere, the ambient pressure assumed for gauge conversions unless a site states its own. */
     public static final double STANDARD_ATMOSPHERE_PA = 101_325.0;
 
+    // The mantissa is possessive: with backtracking, a long run of digits before a line break took cubic time.
     private static final Pattern FORM = Pattern.compile(
-            "\\s*([-+]?(?:\\d+\\.?\\d*|\\.\\d+)(?:[eE][-+]?\\d+)?)\\s*(\\S(?:.*\\S)?)?\\s*");
+            "\\s*([-+]?(?:\\d++(?:\\.\\d*+)?+|\\.\\d++)(?:[eE][-+]?\\d+)?)\\s*(\\S(?:.*\\S)?)?\\s*");
 
     public Quantity {
         Objects.requireNonNull(unit, "unit");

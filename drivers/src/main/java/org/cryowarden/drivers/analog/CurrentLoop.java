@@ -46,6 +46,10 @@ public record CurrentLoop(double low, double high) {
                     + " is above 21 mA (NAMUR NE 43)");
         }
         double value = low + (milliamps - 4.0) / 16.0 * (high - low);
+        if (!Double.isFinite(value)) {
+            return new Value(Double.NaN, Quality.BAD, "loop current " + current + " scales to a value too large to "
+                    + "represent on the range [" + low + ", " + high + "]");
+        }
         if (milliamps < RANGE_LOW_MA || milliamps > RANGE_HIGH_MA) {
             return new Value(value, Quality.UNCERTAIN, "loop current " + current
                     + " is outside the measuring range 3.8-20.5 mA (NAMUR NE 43)");

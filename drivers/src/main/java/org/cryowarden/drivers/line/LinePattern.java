@@ -76,7 +76,11 @@ public final class LinePattern {
         if (trimmed.length() > 64 || !NUMBER.matcher(trimmed).matches()) {
             return new LineMatch.NotANumber(text);
         }
-        return new LineMatch.Value(Double.parseDouble(trimmed));
+        double value = Double.parseDouble(trimmed);
+        if (!Double.isFinite(value)) {
+            return new LineMatch.NotANumber(text);
+        }
+        return new LineMatch.Value(value);
     }
 
     /** What a line said. */

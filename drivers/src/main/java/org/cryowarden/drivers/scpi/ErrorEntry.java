@@ -13,7 +13,9 @@ public record ErrorEntry(int code, String text) {
 
     public static final ErrorEntry NO_ERROR = new ErrorEntry(0, "No error");
 
-    private static final Pattern FORMAT = Pattern.compile("\\s*([+-]?\\d{1,6})\\s*,\\s*\"((?:[^\"]|\"\")*)\"\\s*");
+    // Possessive quantifiers: a plain (?:a|b)* recurses once per character and overflowed the stack on a few
+    // thousand characters of error text.
+    private static final Pattern FORMAT = Pattern.compile("\\s*([+-]?\\d{1,6})\\s*,\\s*\"((?:[^\"]++|\"\")*+)\"\\s*");
 
     public ErrorEntry {
         Objects.requireNonNull(text, "text");

@@ -49,7 +49,7 @@ public final class ScpiCodec {
             String rest = space < 0 ? "" : trimmed.substring(space).strip();
             boolean query = header.endsWith("?");
             String name = query ? header.substring(0, header.length() - 1) : header;
-            if (name.isEmpty() || name.equals(":") || !name.matches("[*:]?[A-Za-z][A-Za-z0-9]*(:[A-Za-z][A-Za-z0-9]*)*")) {
+            if (name.isEmpty() || name.equals(":") || !name.matches("[*:]?[A-Za-z][A-Za-z0-9]*+(?::[A-Za-z][A-Za-z0-9]*+)*+")) {
                 return Optional.empty();
             }
             List<String> parameters = new ArrayList<>();

@@ -162,6 +162,10 @@ public final class YamlReader {
         } catch (YamlEngineException e) {
             problems.add(new ConfigProblem(new SourcePosition(label, 0, 0), "cannot read YAML: " + e.getMessage()));
             throw new ConfigException(problems);
+        } catch (IllegalArgumentException e) {
+            // SnakeYAML Engine's composer throws this, without a mark, for a tag it cannot hold (e.g. "!%A").
+            problems.add(new ConfigProblem(new SourcePosition(label, 0, 0), "cannot read YAML: " + e.getMessage()));
+            throw new ConfigException(problems);
         }
     }
 
@@ -333,7 +337,10 @@ public final class YamlReader {
                 } else if (tag.equals(Tag.BOOL)) {
                     found = "the boolean " + scalar.getValue() + " (quote it if it is meant as text)";
                 } else {
-                    // An explicitly tagged key; the tag itself is reported by checkTag.
+                    // An explicitly tagged key: the key and its value are dropped, so the tag must be reported.
+                    if (report) {
+                        checkTag(keyNode, keyPosition);
+                    }
                     return Optional.empty();
                 }
             } else {
