@@ -65,7 +65,13 @@ public final class LinePattern {
     /** What the line says; never throws on device text. */
     public LineMatch match(String line) {
         Matcher matcher = pattern.matcher(line);
-        if (!matcher.find()) {
+        try {
+            if (!matcher.find()) {
+                return new LineMatch.NoMatch(line);
+            }
+        } catch (StackOverflowError tooDeep) {
+            // A site's own pattern such as (\d|\.)+ recurses once per character in java.util.regex; on a long
+            // line that overflows the stack. The line cannot be matched by this pattern: say so, keep polling.
             return new LineMatch.NoMatch(line);
         }
         String text = matcher.group(VALUE_GROUP);
