@@ -41,6 +41,7 @@ public final class Main implements Runnable {
         line.addSubcommand(new ProbeCommand());
         line.addSubcommand(new PluginsCommand());
         line.addSubcommand(new SimulateCommand());
+        line.addSubcommand(new BenchCommand());
         return line;
     }
 
