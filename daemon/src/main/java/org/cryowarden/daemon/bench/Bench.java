@@ -24,6 +24,8 @@ public final class Bench {
         return switch (suite) {
             case "engine" -> new EngineSuite().run(settings);
             case "bus" -> new BusSuite().run(settings);
+            case "publish" -> new PublishSuite().run(settings);
+            case "simulate" -> new SimulateSuite().run(settings);
             default -> throw new IllegalArgumentException("unknown suite '" + suite + "'; expected one of "
                     + String.join(", ", SUITES));
         };
