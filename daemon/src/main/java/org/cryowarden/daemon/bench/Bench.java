@@ -24,6 +24,7 @@ public final class Bench {
         return switch (suite) {
             case "engine" -> new EngineSuite().run(settings);
             case "bus" -> new BusSuite().run(settings);
+            case "latency" -> new LatencySuite().run(settings);
             case "publish" -> new PublishSuite().run(settings);
             case "simulate" -> new SimulateSuite().run(settings);
             default -> throw new IllegalArgumentException("unknown suite '" + suite + "'; expected one of "
