@@ -26,6 +26,7 @@ public final class Bench {
             case "bus" -> new BusSuite().run(settings);
             case "latency" -> new LatencySuite().run(settings);
             case "publish" -> new PublishSuite().run(settings);
+            case "footprint" -> new FootprintSuite().run(settings);
             case "simulate" -> new SimulateSuite().run(settings);
             default -> throw new IllegalArgumentException("unknown suite '" + suite + "'; expected one of "
                     + String.join(", ", SUITES));

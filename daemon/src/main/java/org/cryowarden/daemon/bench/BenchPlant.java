@@ -18,7 +18,9 @@ import org.cryowarden.rules.config.Configuration;
 
 /**
  * The whole daemon on a generated site: {@code channels} channels polled every {@code period} over Modbus RTU on
- * {@code buses} TCP buses, one {@link BenchDevice} each; per channel a high limit at 80 % (deadband 1 %, no
+ * {@code buses} TCP buses, one {@link BenchDevice} each, one instrument (unit) per channel so that a poll hands over
+ * each reading as soon as its reply is in (an instrument's readings reach the engine together at the end of its
+ * poll); per channel a high limit at 80 % (deadband 1 %, no
  * on-delay, not latching) and a stale rule; the journal in a temporary folder; MQTT on the chosen broker under a
  * topic prefix of its own. Values read 20.0 % unless the bench raises one to 90.0 %.
  */
@@ -26,6 +28,8 @@ final class BenchPlant implements AutoCloseable {
 
     static final int NORMAL = 200;
     static final int HIGH = 900;
+    /** Unit addresses 1-247 (Modbus over Serial Line V1.02, 2.2). */
+    static final int MAX_UNITS = 247;
 
     private final Path folder;
     private final List<BenchDevice> devices;
@@ -43,8 +47,11 @@ final class BenchPlant implements AutoCloseable {
 
     static BenchPlant start(int channels, int buses, Duration period, String brokerUri)
             throws IOException, ConfigException, Daemon.StartException {
-        Path folder = Files.createTempDirectory("cryowarden-bench-plant-");
         int perBus = (channels + buses - 1) / buses;
+        if (perBus > MAX_UNITS) {
+            throw new IllegalArgumentException("at most " + MAX_UNITS + " channels per bus, got " + perBus);
+        }
+        Path folder = Files.createTempDirectory("cryowarden-bench-plant-");
         List<BenchDevice> devices = new ArrayList<>();
         try {
             for (int b = 0; b < buses; b++) {
@@ -124,11 +131,12 @@ final class BenchPlant implements AutoCloseable {
             yaml.append("  - id: bench-bus-").append(b).append('\n')
                     .append("    transport: {kind: tcp, host: 127.0.0.1, port: ").append(devices.get(b).port())
                     .append(", connect_timeout: 2s}\n")
-                    .append("    instruments:\n      - id: bench-device-").append(b).append('\n')
-                    .append("        driver: modbus-rtu\n        settings: {unit: 1, timeout: 300ms}\n")
-                    .append("        channels:\n");
+                    .append("    instruments:\n");
             for (int c = b * perBus; c < Math.min(channels, (b + 1) * perBus); c++) {
-                yaml.append("          - {id: ").append(channelId(c)).append(", unit: '%', period: ").append(every)
+                yaml.append("      - id: bench-instrument-").append(c).append('\n')
+                        .append("        driver: modbus-rtu\n        settings: {unit: ").append(1 + c % perBus)
+                        .append(", timeout: 300ms}\n        channels:\n")
+                        .append("          - {id: ").append(channelId(c)).append(", unit: '%', period: ").append(every)
                         .append(", stale_after: 5s, point: {table: input, address: ").append(c % perBus)
                         .append(", type: uint16, scale: 0.1}}\n");
             }

@@ -65,12 +65,15 @@ final class LatencySuite {
                 settings.say("latency: " + load.channels() + " channels every " + load.period().toMillis() + " ms on "
                         + load.buses() + " buses for " + measure.toSeconds() + " s");
                 double[] achieved = new double[1];
-                Percentiles measured = crossings(load, broker.uri(), measure, settings, achieved);
+                List<Double> toJournal = new CopyOnWriteArrayList<>();
+                Percentiles measured = crossings(load, broker.uri(), measure, settings, achieved, toJournal);
+                Percentiles journal = Percentiles.of(toJournal.stream().mapToDouble(Double::doubleValue).toArray());
                 String k = load.key();
                 figures.put("p50_ms_" + k, measured.p50());
                 figures.put("p99_ms_" + k, measured.p99());
                 figures.put("max_ms_" + k, measured.max());
                 figures.put("samples_" + k, (double) measured.count());
+                figures.put("to_journal_p50_ms_" + k, journal.p50());
                 figures.put("readings_per_second_" + k, achieved[0]);
                 ratio.put("p99_to_reference_" + k, measured.p99() / bare.p99());
                 double excess = measured.p99() - bare.p99();
@@ -82,6 +85,8 @@ final class LatencySuite {
                                 + " max %.2f ms over %d crossings; p99 %.2f ms above the reference",
                         load.channels(), trim(1e9 / load.period().toNanos()), load.buses(), measured.p50(),
                         measured.p99(), measured.max(), measured.count(), excess));
+                lines.add(String.format(Locale.ROOT, "         of which transport -> journal recorded: p50 %.2f ms, p99 %.2f ms",
+                        journal.p50(), journal.p99()));
                 lines.add(String.format(Locale.ROOT, "         readings taken by the engine: %,.0f/s of %,.0f/s asked"
                         + " (one Modbus request per channel)", achieved[0], asked));
             }
@@ -117,10 +122,20 @@ final class LatencySuite {
     }
 
     private static Percentiles crossings(Load load, String uri, Duration measure, BenchSettings settings,
-            double[] achieved) throws Exception {
+            double[] achieved, List<Double> toJournal) throws Exception {
         try (BenchPlant plant = BenchPlant.start(load.channels(), load.buses(), load.period(), uri)) {
             Map<String, Integer> pending = new ConcurrentHashMap<>();
+            Map<String, Long> recordedAt = new ConcurrentHashMap<>();
             List<Double> samples = new CopyOnWriteArrayList<>();
+            plant.daemon().addListener(recorded -> {
+                long now = System.nanoTime();
+                for (var event : recorded.events()) {
+                    if (event.kind().equals("alarm.raised") && event.subject().isPresent()
+                            && pending.containsKey(event.subject().get())) {
+                        recordedAt.put(event.subject().get(), now);
+                    }
+                }
+            });
             MqttAsyncClient subscriber = BareMqtt.connect(uri, "alarm-sub");
             try {
                 subscriber.setCallback(new Arrivals(message -> {
@@ -135,8 +150,12 @@ final class LatencySuite {
                     }
                     BenchDevice device = plant.deviceOf(channel);
                     long sent = device.sentNanos(plant.registerOf(channel));
+                    Long recorded = recordedAt.remove(event.path("subject").asText());
                     if (sent != 0) {
                         samples.add((arrived - sent) / 1e6);
+                        if (recorded != null) {
+                            toJournal.add((recorded - sent) / 1e6);
+                        }
                     }
                     device.set(plant.registerOf(channel), BenchPlant.NORMAL, false);
                 }));
