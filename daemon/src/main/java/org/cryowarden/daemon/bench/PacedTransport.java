@@ -32,12 +32,13 @@ final class PacedTransport implements Transport {
     public void write(byte[] bytes) throws IOException {
         long due = System.nanoTime();
         for (byte b : bytes) {
-            inner.write(new byte[] {b});
+            // A character has arrived only once its last bit is on the line: wait out its time, then hand it over.
             due += nanosPerCharacter;
             long wait;
             while ((wait = due - System.nanoTime()) > 0) {
                 LockSupport.parkNanos(wait);
             }
+            inner.write(new byte[] {b});
         }
     }
 
