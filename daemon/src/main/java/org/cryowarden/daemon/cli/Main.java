@@ -42,6 +42,7 @@ public final class Main implements Runnable {
         line.addSubcommand(new PluginsCommand());
         line.addSubcommand(new SimulateCommand());
         line.addSubcommand(new ReportCommand());
+        line.addSubcommand(new BenchCommand());
         return line;
     }
 

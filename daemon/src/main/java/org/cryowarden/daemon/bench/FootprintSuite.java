@@ -1,0 +1,134 @@
+package org.cryowarden.daemon.bench;
+
+import java.io.IOException;
+import java.lang.management.ManagementFactory;
+import java.lang.management.ThreadMXBean;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.time.Duration;
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+
+/**
+ * The daemon's footprint over a night, scaled down: 200 channels polled at 1 Hz with their rules, the journal
+ * and MQTT, at real speed for at least 10 minutes (an hour scaled by the run's length). Measured: heap in use
+ * after a full GC, resident set (VmRSS of /proc/self/status), CPU of one core from the process CPU time with the
+ * bench device's threads taken out, and journal growth per channel-hour. One channel crosses its limit every
+ * 10 s and returns 3 s later, so alarms flow through the journal and the broker too.
+ */
+final class FootprintSuite {
+
+    static final int CHANNELS = 200;
+    static final int BUSES = 4;
+    static final double HEAP_BUDGET_MB = 64;
+    static final double CPU_BUDGET_PERCENT = 2;
+
+    BenchResult run(BenchSettings settings) throws Exception {
+        Duration measure = settings.measure(Duration.ofMinutes(10));
+        Duration warm = settings.seconds().isPresent() ? Duration.ofSeconds(1) : Duration.ofSeconds(30);
+        try (BrokerChoice broker = BrokerChoice.open(settings);
+             BenchPlant plant = BenchPlant.start(CHANNELS, BUSES, Duration.ofSeconds(1), broker.uri())) {
+            settings.say("footprint: " + CHANNELS + " channels at 1 Hz, warming up " + warm.toSeconds()
+                    + " s, then measuring " + measure.toSeconds() + " s of real time on the " + broker.description());
+            Thread.sleep(warm.toMillis());
+            var os = (com.sun.management.OperatingSystemMXBean) ManagementFactory.getOperatingSystemMXBean();
+            ThreadMXBean threads = ManagementFactory.getThreadMXBean();
+            long cpu0 = os.getProcessCpuTime();
+            long device0 = deviceCpu(plant, threads);
+            long journal0 = plant.journalBytes();
+            long processed0 = LatencySuite.processed(plant);
+            long start = System.nanoTime();
+            long end = start + measure.toNanos();
+            int channel = 0;
+            long nextCrossing = start;
+            while (System.nanoTime() < end) {
+                long now = System.nanoTime();
+                if (now >= nextCrossing) {
+                    int c = channel;
+                    plant.deviceOf(c).set(plant.registerOf(c), BenchPlant.HIGH, false);
+                    channel = (channel + 1) % CHANNELS;
+                    nextCrossing += Duration.ofSeconds(10).toNanos();
+                    Thread.sleep(Math.min(3_000, Math.max(1, (end - System.nanoTime()) / 1_000_000)));
+                    plant.deviceOf(c).set(plant.registerOf(c), BenchPlant.NORMAL, false);
+                }
+                Thread.sleep(Math.max(1, Math.min(1_000, (Math.min(end, nextCrossing) - System.nanoTime()) / 1_000_000)));
+            }
+            double wall = (System.nanoTime() - start) / 1e9;
+            long cpu = os.getProcessCpuTime() - cpu0;
+            long device = deviceCpu(plant, threads) - device0;
+            long journalGrowth = plant.journalBytes() - journal0;
+            long processed = LatencySuite.processed(plant) - processed0;
+            System.gc();
+            System.gc();
+            Thread.sleep(200);
+            double heapMb = ManagementFactory.getMemoryMXBean().getHeapMemoryUsage().getUsed() / 1048576.0;
+            double rssMb = statusKb("VmRSS") / 1024.0;
+            double cpuPercent = (cpu - device) / 1e9 / wall * 100;
+            double processCpuPercent = cpu / 1e9 / wall * 100;
+            double channelHours = CHANNELS * wall / 3600;
+            double journalPerChannelHour = journalGrowth / channelHours;
+            Map<String, Double> figures = new LinkedHashMap<>();
+            figures.put("heap_after_gc_mb", heapMb);
+            figures.put("rss_mb", rssMb);
+            figures.put("cpu_percent_of_one_core", cpuPercent);
+            figures.put("process_cpu_percent_with_bench_device", processCpuPercent);
+            figures.put("journal_bytes_per_channel_hour", Math.max(journalPerChannelHour, 0));
+            figures.put("readings_per_second", processed / wall);
+            figures.put("wall_seconds", wall);
+            Map<String, Double> reference = new LinkedHashMap<>();
+            reference.put("heap_budget_mb", HEAP_BUDGET_MB);
+            reference.put("cpu_budget_percent", CPU_BUDGET_PERCENT);
+            Map<String, Double> ratio = new LinkedHashMap<>();
+            ratio.put("heap_to_budget", heapMb / HEAP_BUDGET_MB);
+            ratio.put("cpu_to_budget", cpuPercent / CPU_BUDGET_PERCENT);
+            boolean meets = heapMb < HEAP_BUDGET_MB && cpuPercent < CPU_BUDGET_PERCENT;
+            List<String> lines = new ArrayList<>();
+            lines.add("footprint: " + CHANNELS + " channels at 1 Hz on " + BUSES + " Modbus TCP buses, "
+                    + 2 * CHANNELS + " rules, journal and MQTT on the " + broker.description()
+                    + String.format(Locale.ROOT, ", %.0f s of real time (scaled to an hour)", wall));
+            if (broker.embedded()) {
+                lines.add("  note: the embedded broker runs in this process; heap, RSS and CPU include it");
+            }
+            lines.add(String.format(Locale.ROOT, "  heap after GC:  %.1f MB (budget %.0f MB, %.0f %% of it)", heapMb,
+                    HEAP_BUDGET_MB, heapMb / HEAP_BUDGET_MB * 100));
+            lines.add(String.format(Locale.ROOT, "  resident set:   %.1f MB (VmRSS; the JVM's own share included)",
+                    rssMb));
+            lines.add(String.format(Locale.ROOT, "  CPU:            %.2f %% of one core (budget %.0f %%); %.2f %% with"
+                    + " the bench device's threads", cpuPercent, CPU_BUDGET_PERCENT, processCpuPercent));
+            lines.add(String.format(Locale.ROOT, "  journal:        %,.0f bytes per channel-hour (%,d bytes in %.2f"
+                    + " channel-hours)", journalPerChannelHour, journalGrowth, channelHours));
+            lines.add(String.format(Locale.ROOT, "  readings:       %,.1f per second taken by the engine",
+                    processed / wall));
+            return new BenchResult("footprint", figures, reference, ratio,
+                    "heap after GC < 64 MB and CPU < 2 % of one core", meets, lines);
+        }
+    }
+
+    private static long deviceCpu(BenchPlant plant, ThreadMXBean threads) {
+        long total = 0;
+        for (BenchDevice device : plant.devices()) {
+            for (Thread thread : device.threads()) {
+                long cpu = threads.getThreadCpuTime(thread.getId());
+                total += Math.max(0, cpu);
+            }
+        }
+        return total;
+    }
+
+    /** A line of /proc/self/status in kB; 0 where there is no such file (not Linux). */
+    private static long statusKb(String key) throws IOException {
+        Path status = Path.of("/proc/self/status");
+        if (!Files.exists(status)) {
+            return 0;
+        }
+        for (String line : Files.readAllLines(status)) {
+            if (line.startsWith(key + ":")) {
+                return Long.parseLong(line.substring(key.length() + 1).replace("kB", "").strip());
+            }
+        }
+        return 0;
+    }
+}
