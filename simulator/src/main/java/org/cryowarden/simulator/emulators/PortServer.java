@@ -150,8 +150,10 @@ public final class PortServer implements AutoCloseable {
     }
 
     /**
-     * Drops every connection and stops listening (a device server losing power), or listens again on the same
-     * port. Called by the timeline on the simulation thread.
+     * Drops every connection and refuses new ones (a device server losing power), or serves again. The listening
+     * socket stays bound meanwhile and new connections are closed at once: releasing the port would let another
+     * program on a busy machine take it, and the device could then never come back. Called by the timeline on the
+     * simulation thread.
      */
     public void setDisconnected(boolean down) throws IOException {
         synchronized (lock) {
@@ -160,18 +162,11 @@ public final class PortServer implements AutoCloseable {
             }
             disconnected = down;
             if (down) {
-                ServerSocket current = server;
-                server = null;
-                if (current != null) {
-                    current.close();
-                }
                 for (Connection connection : connections) {
                     connection.close();
                 }
-            } else {
-                server = bind(port);
-                lock.notifyAll();
             }
+            lock.notifyAll();
         }
     }
 
