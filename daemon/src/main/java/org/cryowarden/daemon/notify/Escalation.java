@@ -175,7 +175,7 @@ final class Escalation {
         c.stage = 0;
         long now = time.monotonicNanos();
         c.raisedAtNanos = now;
-        List<Roster.Contact> first = roster.resolve(policy.steps().get(0).notify(), time.wallNow());
+        List<Roster.Contact> first = roster.resolve(policy.steps().get(0).recipients(), time.wallNow());
         for (Roster.Contact contact : first) {
             c.told.add(contact.id());
             if (flooding && floodTold.contains(contact.id())) {
@@ -193,7 +193,7 @@ final class Escalation {
         if (c.stage < steps) {
             Roster.Step step = c.policy.steps().get(c.stage);
             String why = "not acknowledged " + DurationSyntax.format(sinceRaise(c, now)) + " after it was raised";
-            for (Roster.Contact contact : roster.resolve(step.notify(), wall)) {
+            for (Roster.Contact contact : roster.resolve(step.recipients(), wall)) {
                 if (c.told.add(contact.id())) {
                     emit(contact, alarmItem(c, contact, "alarm", c.stage + 1, why));
                 }

@@ -41,13 +41,13 @@ final class NoticeOutbox {
             for (Message message : messages) {
                 for (Roster.Reach reach : message.contact().reach()) {
                     Notice notice = new Notice(message.id(), message.contact().id(), reach.address(),
-                            message.subject(), message.text(), JSON.writeValueAsString(message.json()));
+                            message.subject(), message.text(), text(message.json()));
                     ObjectNode event = describe(notice, reach.sender());
                     event.put("notice_kind", message.kind());
                     event.put("cause", message.subject());
                     long seq = tx.appendEvent(new NewEvent("notify.queued", at, Optional.of(message.contact().id()),
-                            Optional.empty(), JSON.writeValueAsString(event)));
-                    tx.enqueue(sink(reach.sender()), reach.address(), JSON.writeValueAsString(store(notice)),
+                            Optional.empty(), text(event)));
+                    tx.enqueue(sink(reach.sender()), reach.address(), text(store(notice)),
                             OptionalLong.of(seq), at);
                 }
             }

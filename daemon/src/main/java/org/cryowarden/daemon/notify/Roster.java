@@ -75,10 +75,10 @@ public record Roster(ZoneId zone, Map<String, Contact> contacts, Map<String, Lis
         }
     }
 
-    /** One escalation step: {@code after} the previous step (zero for the first), tell {@code notify}. */
-    public record Step(Duration after, List<String> notify) {
+    /** One escalation step: {@code after} the previous step (zero for the first), tell {@code recipients}. */
+    public record Step(Duration after, List<String> recipients) {
         public Step {
-            notify = List.copyOf(notify);
+            recipients = List.copyOf(recipients);
         }
     }
 

@@ -128,7 +128,7 @@ public final class RosterLoader {
                 policy(entry.value(), entry.key()).ifPresent(p -> policies.put(priority, p));
             }
             if (flood.isEmpty() && policies.containsKey(Priority.CRITICAL)) {
-                flood = policies.get(Priority.CRITICAL).steps().get(0).notify();
+                flood = policies.get(Priority.CRITICAL).steps().get(0).recipients();
             }
         }
         Duration pacing = file.duration("pacing", Duration.ZERO, Duration.ofHours(1), false)
@@ -261,7 +261,7 @@ public final class RosterLoader {
         Duration length = Duration.between(from.get(), to.get());
         if (s.text("to", true).map(String::strip).orElse("").equals("24:00")) {
             length = Duration.between(from.get(), LocalTime.MAX).plusNanos(1);
-        } else if (!length.isPositive()) {
+        } else if ((length.isZero() || length.isNegative())) {
             length = length.plusDays(1);
         }
         return Optional.of(new Roster.Shift(days, from.get(), length, onCall));
@@ -288,7 +288,7 @@ public final class RosterLoader {
                 SettingsReader s = reader(stepNode.get().mapping(), "step " + (i + 1) + " of " + what);
                 s.allowOnly("after", "notify");
                 Duration after = s.duration("after", Duration.ZERO, LONGEST_WAIT, i > 0).orElse(Duration.ZERO);
-                if (i == 0 && after.isPositive()) {
+                if (i == 0 && !(after.isZero() || after.isNegative())) {
                     s.problem(s.position("after"), "the first step of " + what + " is sent at once; remove its "
                             + "'after' (a wait belongs to the steps that follow)");
                 }
