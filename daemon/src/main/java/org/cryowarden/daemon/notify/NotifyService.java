@@ -1,0 +1,130 @@
+package org.cryowarden.daemon.notify;
+
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.OptionalLong;
+import java.util.concurrent.ConcurrentLinkedQueue;
+import java.util.concurrent.locks.LockSupport;
+import org.cryowarden.daemon.journal.Journal;
+import org.cryowarden.daemon.journal.JournalException;
+import org.cryowarden.daemon.notify.spi.Notifier;
+import org.cryowarden.daemon.run.DaemonEvent;
+import org.cryowarden.rules.TimeSource;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
+
+/**
+ * The notify sink: takes recorded events (from the journal thread, never blocking it), escalates them with the
+ * roster, puts the resulting notices in the journal's outbox and delivers each sender's outbox in order.
+ *
+ * <p>Threads: {@link #accept} from any thread; {@link #runDue} on one thread only, either the service's own
+ * ({@link #start}) or a test's that moves a virtual clock between calls. Escalation timers use the monotonic side
+ * of the clock, so a night replays the same in a test.
+ */
+public final class NotifyService implements AutoCloseable {
+
+    private static final Logger LOG = LoggerFactory.getLogger(NotifyService.class);
+    private static final long IDLE_WAIT_NANOS = 200_000_000L;
+
+    private record Recorded(DaemonEvent event, long seq) {
+    }
+
+    private final Escalation escalation;
+    private final NoticeOutbox outbox;
+    private final TimeSource time;
+    private final Map<String, SenderQueue> senders = new LinkedHashMap<>();
+    private final ConcurrentLinkedQueue<Recorded> inbox = new ConcurrentLinkedQueue<>();
+    private volatile boolean running;
+    private Thread thread;
+
+    public NotifyService(Roster roster, Map<String, Notifier> notifiers, Journal journal, TimeSource time,
+            String site) {
+        this.escalation = new Escalation(roster, time, site);
+        this.outbox = new NoticeOutbox(journal);
+        this.time = time;
+        notifiers.forEach((id, notifier) -> senders.put(id, new SenderQueue(id, notifier, outbox, time)));
+    }
+
+    /** Hands over events the journal recorded, with their sequence numbers (empty where recording failed). */
+    public void accept(List<DaemonEvent> events, List<OptionalLong> seqs) {
+        for (int i = 0; i < events.size(); i++) {
+            OptionalLong seq = i < seqs.size() ? seqs.get(i) : OptionalLong.empty();
+            // An unrecorded event still pages; its notices take an id from the clock instead of the journal.
+            inbox.add(new Recorded(events.get(i), seq.orElse(-time.monotonicNanos())));
+        }
+        LockSupport.unpark(thread);
+    }
+
+    /**
+     * Escalates what arrived, fires due timers, queues the notices and delivers what each sender can.
+     *
+     * @return the monotonic time (ns) when something is next due
+     */
+    public long runDue() {
+        List<Message> messages = new ArrayList<>();
+        Recorded next;
+        while ((next = inbox.poll()) != null) {
+            messages.addAll(escalation.onEvent(next.event(), next.seq()));
+        }
+        messages.addAll(escalation.tick());
+        try {
+            outbox.enqueue(messages, time.wallNow());
+        } catch (JournalException e) {
+            LOG.error("could not queue {} notices in the journal; they are lost: {}", messages.size(),
+                    e.getMessage());
+        }
+        long due = escalation.nextDue();
+        for (SenderQueue queue : senders.values()) {
+            try {
+                due = Math.min(due, queue.runDue());
+            } catch (JournalException | RuntimeException e) {
+                LOG.error("notice delivery failed: {}", e.getMessage());
+            }
+        }
+        return due;
+    }
+
+    /** Undelivered notices of {@code sender}. */
+    public long depth(String sender) throws JournalException {
+        return outbox.depth(sender);
+    }
+
+    public void start() {
+        running = true;
+        thread = new Thread(this::loop, "notify");
+        thread.setDaemon(true);
+        thread.start();
+    }
+
+    private void loop() {
+        while (running) {
+            long due;
+            try {
+                due = runDue();
+            } catch (RuntimeException e) {
+                LOG.error("notify round failed; carrying on", e);
+                due = time.monotonicNanos() + IDLE_WAIT_NANOS;
+            }
+            long wait = Math.min(IDLE_WAIT_NANOS, Math.max(1_000_000L, due - time.monotonicNanos()));
+            if (inbox.isEmpty()) {
+                LockSupport.parkNanos(this, wait);
+            }
+        }
+    }
+
+    @Override
+    public void close() {
+        running = false;
+        if (thread != null) {
+            LockSupport.unpark(thread);
+            try {
+                thread.join(5_000);
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+            }
+        }
+        senders.values().forEach(SenderQueue::close);
+    }
+}
