@@ -37,11 +37,22 @@ final class Subscriber implements AutoCloseable {
     void request(String topic, String body, String responseTopic, String correlation) throws Exception {
         MqttMessage message = new MqttMessage(body.getBytes(StandardCharsets.UTF_8));
         message.setQos(1);
+        requestMessage(topic, message, responseTopic, correlation);
+    }
+
+    /** Publishes {@code message} (its QoS and retain flag as set) as an MQTT 5 request. */
+    void requestMessage(String topic, MqttMessage message, String responseTopic, String correlation)
+            throws Exception {
         MqttProperties properties = new MqttProperties();
         properties.setResponseTopic(responseTopic);
         properties.setCorrelationData(correlation.getBytes(StandardCharsets.UTF_8));
         message.setProperties(properties);
         client.publish(topic, message);
+    }
+
+    /** Removes the retained message on {@code topic} (an empty retained publish). */
+    void clearRetained(String topic) throws Exception {
+        client.publish(topic, new byte[0], 1, true);
     }
 
     List<Message> on(String topic) {
