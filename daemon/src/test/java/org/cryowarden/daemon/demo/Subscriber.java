@@ -20,9 +20,11 @@ final class Subscriber implements AutoCloseable {
     }
 
     private final MqttClient client;
+    private final String filter;
     final List<Message> received = new CopyOnWriteArrayList<>();
 
     Subscriber(String uri, String filter) throws Exception {
+        this.filter = filter;
         client = new MqttClient(uri, "test-" + UUID.randomUUID(), new MemoryPersistence());
         MqttConnectionOptions options = new MqttConnectionOptions();
         options.setCleanStart(true);
@@ -53,6 +55,11 @@ final class Subscriber implements AutoCloseable {
     /** Removes the retained message on {@code topic} (an empty retained publish). */
     void clearRetained(String topic) throws Exception {
         client.publish(topic, new byte[0], 1, true);
+    }
+
+    /** The subscription filter without its trailing {@code /#}. */
+    String filterPrefix() {
+        return filter.endsWith("/#") ? filter.substring(0, filter.length() - 2) : filter;
     }
 
     List<Message> on(String topic) {
