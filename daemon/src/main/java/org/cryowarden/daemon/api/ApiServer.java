@@ -191,6 +191,8 @@ public final class ApiServer implements AutoCloseable {
             byte[] body = readBody(exchange.getRequestBody());
             OperatorCommand.Parsed parsed = OperatorCommand.parse(verb, body);
             if (parsed.error().isPresent()) {
+                LOG.warn("command {} over HTTP refused: {}", verb, parsed.error().get());
+                daemon.commandRefused("http", verb, Optional.empty(), parsed.error().get());
                 send(exchange, 400, Payloads.reply(parsed.error()));
                 return;
             }
@@ -198,6 +200,7 @@ public final class ApiServer implements AutoCloseable {
             Optional<String> refusal = daemon.command(command).get(10, TimeUnit.SECONDS);
             LOG.info("command {} {} by {} over HTTP: {}", verb, command.target(), command.operator(),
                     refusal.map(r -> "refused: " + r).orElse("done"));
+            refusal.ifPresent(r -> daemon.commandRefused("http", verb, Optional.of(command), r));
             send(exchange, refusal.isEmpty() ? 200 : 409, Payloads.reply(refusal));
             return;
         }

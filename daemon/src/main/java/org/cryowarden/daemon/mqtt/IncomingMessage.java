@@ -11,7 +11,8 @@ import java.util.Optional;
  * @param topic           the topic it was published on
  * @param payload         its bytes (copied)
  * @param qos             the QoS it was delivered with
- * @param retained        whether it is a retained value the broker replayed on subscribe
+ * @param retained        whether it was published retained (replayed on subscribe, or forwarded live: the
+ *                        link subscribes with Retain As Published)
  * @param responseTopic   where the sender wants the reply, if it is a request
  * @param correlationData what the reply must carry back, if the sender set it
  */

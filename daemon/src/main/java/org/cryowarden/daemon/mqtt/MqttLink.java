@@ -478,8 +478,13 @@ public final class MqttLink implements AutoCloseable {
     }
 
     private void sendSubscriptions(List<Subscription> toSend) {
-        MqttSubscription[] wire = toSend.stream().map(s -> new MqttSubscription(s.filter(), s.qos()))
-                .toArray(MqttSubscription[]::new);
+        // Retain As Published (MQTT 5.0, 3.8.3.1): a message published retained keeps its flag when forwarded
+        // live, so a handler can tell it from a transient one (commands refuse retained messages).
+        MqttSubscription[] wire = toSend.stream().map(s -> {
+            MqttSubscription subscription = new MqttSubscription(s.filter(), s.qos());
+            subscription.setRetainAsPublished(true);
+            return subscription;
+        }).toArray(MqttSubscription[]::new);
         try {
             // The overloads taking an IMqttMessageListener are broken in Paho 1.2.5 (#816, #863, #885):
             // messages are routed by our own filter matching instead.

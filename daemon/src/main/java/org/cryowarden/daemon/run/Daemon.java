@@ -151,7 +151,8 @@ public final class Daemon implements AutoCloseable {
             link = link.withCredentials(settings.username().get(), readSecret(settings.passwordFile()));
         }
         this.bridge = new MqttBridge(new MqttLink(link), settings.prefix(), journal, time,
-                new ReportByException(settings.deadbands(), settings.maxInterval()), loop::command);
+                new ReportByException(settings.deadbands(), settings.maxInterval()), loop::command,
+                this::commandRefused);
         bridgeRef.bridge = bridge;
         journalSink.addListener(bridge);
         journalSink.addListener(committed -> {
@@ -333,6 +334,11 @@ public final class Daemon implements AutoCloseable {
         return bridge.connected();
     }
 
+    /** Connected, and the broker granted the subscription to {@code <prefix>/command/+} at least once. */
+    public boolean acceptingCommands() {
+        return bridge.connected() && bridge.commandsSubscribed();
+    }
+
     public MeterRegistry meters() {
         return metrics;
     }
@@ -372,6 +378,17 @@ public final class Daemon implements AutoCloseable {
 
     public CompletableFuture<Optional<String>> command(OperatorCommand command) {
         return loop.command(command);
+    }
+
+    /**
+     * Journals a refused operator command as a {@code command.refused} event with the reason, word for word the
+     * reply's; it changes no alarm or interlock state. Any thread.
+     *
+     * @param via     where the command came from: {@code mqtt} or {@code http}
+     * @param command the command when its body could be read; empty when the body itself was refused
+     */
+    public void commandRefused(String via, String verb, Optional<OperatorCommand> command, String reason) {
+        loop.record(RefusedCommand.event(via, verb, command, reason, time.wallNow()));
     }
 
     public List<JournalEvent> eventsAfter(long seq, int limit) throws JournalException {

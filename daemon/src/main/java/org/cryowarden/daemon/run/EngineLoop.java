@@ -149,6 +149,14 @@ final class EngineLoop implements AutoCloseable {
         });
     }
 
+    /**
+     * Journals and publishes {@code event} in order with the engine's own events, changing no alarm state (a
+     * refused command, for instance).
+     */
+    void record(DaemonEvent event) {
+        inbox.submit(() -> sinks.batch(new EventBatch(List.of(event), Map.of(), Map.of(), summary())));
+    }
+
     /** Records a failed or agreeing output write (from the output writer's thread). */
     void outputResult(String output, Optional<String> disagreement) {
         inbox.submit(() -> {

@@ -55,6 +55,12 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
     private final TimeSource time;
     private final ReportByException rbe;
     private final Function<OperatorCommand, CompletableFuture<Optional<String>>> commands;
+    private final Refusals refusals;
+
+    /** Where refused commands are recorded (the journal, through the engine thread); must return at once. */
+    interface Refusals {
+        void refused(String via, String verb, Optional<OperatorCommand> command, String reason);
+    }
 
     private final ReentrantLock lock = new ReentrantLock();
     private final Condition wake = lock.newCondition();
@@ -72,17 +78,19 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
     private final AtomicLong commandsRefused = new AtomicLong();
     private final AtomicLong aggregateFailures = new AtomicLong();
     private volatile long outboxDepth;
+    private volatile CompletableFuture<Void> commandsGranted = new CompletableFuture<>();
     private volatile boolean running;
     private final List<Thread> threads = new ArrayList<>();
 
     MqttBridge(MqttLink link, String prefix, Journal journal, TimeSource time, ReportByException rbe,
-            Function<OperatorCommand, CompletableFuture<Optional<String>>> commands) {
+            Function<OperatorCommand, CompletableFuture<Optional<String>>> commands, Refusals refusals) {
         this.link = link;
         this.prefix = prefix;
         this.journal = journal;
         this.time = time;
         this.rbe = rbe;
         this.commands = commands;
+        this.refusals = refusals;
     }
 
     String prefix() {
@@ -111,7 +119,7 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
                 LOG.warn("MQTT connection lost ({}); polling and evaluating go on, events wait in the journal", reason);
             }
         });
-        link.subscribe(prefix + "/command/+", 1, this::onCommand);
+        commandsGranted = link.subscribe(prefix + "/command/+", 1, this::onCommand);
         link.start();
         threads.add(thread("mqtt readings", this::readingLoop));
         threads.add(thread("mqtt events", this::eventLoop));
@@ -175,6 +183,11 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
 
     boolean connected() {
         return link.isConnected();
+    }
+
+    /** Whether the broker granted the command subscription (at least once): commands sent now are heard. */
+    boolean commandsSubscribed() {
+        return commandsGranted.isDone() && !commandsGranted.isCompletedExceptionally();
     }
 
     /** Stops the threads and closes the link, publishing {@code offline} with the reason as the status. */
@@ -326,20 +339,27 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
 
     private void onCommand(IncomingMessage message) {
         String verb = message.topic().substring(message.topic().lastIndexOf('/') + 1);
+        if (message.retained() && message.payload().length == 0) {
+            // An empty retained message is how a client clears a retained one (MQTT 5.0, 3.3.1.3): not a command.
+            LOG.info("the retained message on {} was cleared", message.topic());
+            return;
+        }
         if (message.retained()) {
-            LOG.warn("ignoring a retained message on {}: commands must not be retained", message.topic());
+            // A retained command would act again at every reconnect: refuse it without reading it.
+            refuse(message, verb, Optional.empty(), "commands must not be retained; clear the retained message on "
+                    + message.topic());
             return;
         }
         OperatorCommand.Parsed parsed = OperatorCommand.parse(verb, message.payload());
         if (parsed.error().isPresent()) {
-            refuse(message, verb, parsed.error().get());
+            refuse(message, verb, Optional.empty(), parsed.error().get());
             return;
         }
         OperatorCommand command = parsed.command().orElseThrow();
         commands.apply(command).whenComplete((refusal, failure) -> {
             Optional<String> error = failure != null ? Optional.of("internal failure: " + failure) : refusal;
             if (error.isPresent()) {
-                refuse(message, verb, error.get());
+                refuse(message, verb, Optional.of(command), error.get());
             } else {
                 LOG.info("command {} {} by {} over MQTT done", verb, command.target(), command.operator());
                 link.reply(message, Payloads.text(Payloads.reply(Optional.empty())));
@@ -347,9 +367,10 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
         });
     }
 
-    private void refuse(IncomingMessage message, String verb, String error) {
+    private void refuse(IncomingMessage message, String verb, Optional<OperatorCommand> command, String error) {
         commandsRefused.incrementAndGet();
         LOG.warn("command {} over MQTT refused: {}", verb, error);
+        refusals.refused("mqtt", verb, command, error);
         if (message.responseTopic().isPresent()) {
             link.reply(message, Payloads.text(Payloads.reply(Optional.of(error))));
         }

@@ -27,6 +27,8 @@ class CheckCommandTest {
         int exit = run("check", "--site", SITE, "--rules", RULES);
 
         assertThat(exit).isEqualTo(0);
+        // 20 rules plus the two helium forecast rules of the example rule set (he-dewar-1-empty-by-morning,
+        // he-dewar-1-nearly-empty); the interlock is counted on its own.
         assertThat(out.toString()).isEqualTo("valid: site 'Harbour Hall low-temperature lab': 17 channels "
                 + "(12 measured, 5 derived), 2 outputs, 22 rules, 1 interlock from 1 rule file; 3 buses, "
                 + "5 instruments" + System.lineSeparator());

@@ -103,8 +103,12 @@ class QuenchNightOnMosquittoTest {
                 assertThat(answers.get("c2").path("error").asText()).startsWith("command body is not valid JSON");
                 assertThat(answers.get("c3").path("error").asText()).isEqualTo("missing operator: say who is acting");
                 assertThat(answers.get("c4").toString()).isEqualTo("{\"ok\":true}");
+                // The retained alarm document goes out on commit; the event follows the refusals' events through
+                // the outbox: wait for both.
                 stepUntil(simulator, daemon, () -> dashboard.on(prefix + "/alarm/o2-magnet-hall-low").stream()
-                        .anyMatch(m -> m.text().contains("\"acknowledged_by\":\"Ada\"")), 2000);
+                        .anyMatch(m -> m.text().contains("\"acknowledged_by\":\"Ada\""))
+                        && dashboard.on(prefix + "/event").stream()
+                        .anyMatch(m -> m.text().contains("\"kind\":\"alarm.acknowledged\"")), 2000);
 
                 // Every event, in order, without a gap, each once.
                 List<Long> seqs = new ArrayList<>();

@@ -20,9 +20,11 @@ final class Subscriber implements AutoCloseable {
     }
 
     private final MqttClient client;
+    private final String filter;
     final List<Message> received = new CopyOnWriteArrayList<>();
 
     Subscriber(String uri, String filter) throws Exception {
+        this.filter = filter;
         client = new MqttClient(uri, "test-" + UUID.randomUUID(), new MemoryPersistence());
         MqttConnectionOptions options = new MqttConnectionOptions();
         options.setCleanStart(true);
@@ -37,11 +39,27 @@ final class Subscriber implements AutoCloseable {
     void request(String topic, String body, String responseTopic, String correlation) throws Exception {
         MqttMessage message = new MqttMessage(body.getBytes(StandardCharsets.UTF_8));
         message.setQos(1);
+        requestMessage(topic, message, responseTopic, correlation);
+    }
+
+    /** Publishes {@code message} (its QoS and retain flag as set) as an MQTT 5 request. */
+    void requestMessage(String topic, MqttMessage message, String responseTopic, String correlation)
+            throws Exception {
         MqttProperties properties = new MqttProperties();
         properties.setResponseTopic(responseTopic);
         properties.setCorrelationData(correlation.getBytes(StandardCharsets.UTF_8));
         message.setProperties(properties);
         client.publish(topic, message);
+    }
+
+    /** Removes the retained message on {@code topic} (an empty retained publish). */
+    void clearRetained(String topic) throws Exception {
+        client.publish(topic, new byte[0], 1, true);
+    }
+
+    /** The subscription filter without its trailing {@code /#}. */
+    String filterPrefix() {
+        return filter.endsWith("/#") ? filter.substring(0, filter.length() - 2) : filter;
     }
 
     List<Message> on(String topic) {
@@ -64,7 +82,11 @@ final class Subscriber implements AutoCloseable {
     @Override
     public void close() throws Exception {
         if (client.isConnected()) {
-            client.disconnect();
+            try {
+                client.disconnect();
+            } catch (org.eclipse.paho.mqttv5.common.MqttException e) {
+                // the broker went away meanwhile (a test stopped it): nothing left to disconnect
+            }
         }
         client.close();
     }

@@ -16,7 +16,7 @@ import java.util.concurrent.atomic.AtomicInteger;
  * (the broker looks down) or stall the broker's answers, without touching the broker itself.
  * Its threads are named {@value #THREAD_PREFIX}... so thread-leak checks can leave them out.
  */
-final class TcpRelay implements AutoCloseable {
+public final class TcpRelay implements AutoCloseable {
 
     static final String THREAD_PREFIX = "test-relay-";
 
@@ -28,7 +28,7 @@ final class TcpRelay implements AutoCloseable {
     private volatile boolean stalled;
     private final Thread acceptor;
 
-    TcpRelay(int targetPort) throws IOException {
+    public TcpRelay(int targetPort) throws IOException {
         this.targetPort = targetPort;
         this.server = new ServerSocket();
         server.bind(new InetSocketAddress(InetAddress.getLoopbackAddress(), 0));
@@ -37,12 +37,12 @@ final class TcpRelay implements AutoCloseable {
         acceptor.start();
     }
 
-    String uri() {
+    public String uri() {
         return "tcp://127.0.0.1:" + server.getLocalPort();
     }
 
     /** Whether new connections are passed on (true) or closed at once, as if no broker listened. */
-    void accepting(boolean value) {
+    public void accepting(boolean value) {
         accepting = value;
     }
 
@@ -57,7 +57,7 @@ final class TcpRelay implements AutoCloseable {
     }
 
     /** Breaks every open connection without an MQTT DISCONNECT, as a pulled cable would. */
-    void breakConnections() {
+    public void breakConnections() {
         for (Socket socket : sockets) {
             closeQuietly(socket);
         }
