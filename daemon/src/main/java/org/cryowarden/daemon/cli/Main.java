@@ -41,6 +41,8 @@ public final class Main implements Runnable {
         line.addSubcommand(new ProbeCommand());
         line.addSubcommand(new PluginsCommand());
         line.addSubcommand(new SimulateCommand());
+        line.addSubcommand(new ReplayCommand());
+        line.addSubcommand(new ExportCommand());
         return line;
     }
 
