@@ -43,6 +43,8 @@ public final class Main implements Runnable {
         line.addSubcommand(new SimulateCommand());
         line.addSubcommand(new ReportCommand());
         line.addSubcommand(new BenchCommand());
+        line.addSubcommand(new ReplayCommand());
+        line.addSubcommand(new ExportCommand());
         return line;
     }
 

@@ -127,11 +127,10 @@ public final class DemoNight {
                     .withJournal(settings.journal().orElse(work.resolve("demo-journal.db")))
                     .withApi(Optional.empty(), Optional.empty())
                     .withMaxInterval(Duration.ofMinutes(1));
-            Daemon.Options options = Daemon.Options.defaults().driven();
-            if (settings.exactPort()) {
-                options = new Daemon.Options(Daemon.Mode.DRIVEN, false, options.tickEvery(), options.writeTimeout(),
-                        options.backoff());
-            }
+            Daemon.Options driven = Daemon.Options.defaults().driven();
+            // Driven, the engine ticks once per simulated step: the tick period the journal records for replay.
+            Daemon.Options options = new Daemon.Options(Daemon.Mode.DRIVEN, !settings.exactPort(), scenario.step(),
+                    driven.writeTimeout(), driven.backoff());
             try (Daemon daemon = Daemon.start(site, rules, configuration, daemonSettings, catalog, clock, options)) {
                 daemon.addListener(this::committed);
                 return night(simulator, daemon, scenario, clock, endpoints);

@@ -92,6 +92,11 @@ public final class BlockEncoder {
         return count == 0;
     }
 
+    /** The timestamp of the first reading of the block; only when it is not empty. */
+    Instant firstInstant() {
+        return instant(firstNanos);
+    }
+
     /** The timestamp of the last reading appended, if any. */
     public Optional<Instant> last() {
         return count == 0 ? Optional.empty() : Optional.of(instant(prevNanos));

@@ -48,6 +48,7 @@ public final class Journal implements AutoCloseable {
     private final JournalSettings settings;
     private final Connection records;
     private final Connection aggregatesConnection;
+    private final HistoryTable history;
     private final Object recordLock = new Object();
     private final Object aggregateLock = new Object();
     private final Map<BucketKey, MinuteBucket> buckets = new LinkedHashMap<>();
@@ -59,11 +60,13 @@ public final class Journal implements AutoCloseable {
     private record BucketKey(String channel, long minuteMs) {
     }
 
-    private Journal(Path file, JournalSettings settings, Connection records, Connection aggregates) {
+    private Journal(Path file, JournalSettings settings, Connection records, Connection aggregates,
+            Connection history) {
         this.file = file;
         this.settings = settings;
         this.records = records;
         this.aggregatesConnection = aggregates;
+        this.history = new HistoryTable(file, history);
     }
 
     /**
@@ -77,6 +80,7 @@ public final class Journal implements AutoCloseable {
         checkPath(path);
         Connection records = null;
         Connection aggregates = null;
+        Connection history = null;
         try {
             records = connect(path, settings, SQLiteConfig.SynchronousMode.FULL);
             int version = Schema.currentVersion(records);
@@ -89,15 +93,18 @@ public final class Journal implements AutoCloseable {
             checkWal(records, path);
             migrate(records, version);
             aggregates = connect(path, settings, SQLiteConfig.SynchronousMode.NORMAL);
-            return new Journal(path, settings, records, aggregates);
+            history = connect(path, settings, SQLiteConfig.SynchronousMode.NORMAL);
+            return new Journal(path, settings, records, aggregates, history);
         } catch (SQLException e) {
             closeQuietly(records);
             closeQuietly(aggregates);
+            closeQuietly(history);
             throw new JournalException("cannot open the journal " + path + ": " + SqliteProblems.explain(e)
                     + NOTHING_RECORDED, e);
         } catch (JournalException e) {
             closeQuietly(records);
             closeQuietly(aggregates);
+            closeQuietly(history);
             throw e;
         }
     }
@@ -105,6 +112,11 @@ public final class Journal implements AutoCloseable {
     /** The journal file, absolute. */
     public Path file() {
         return file;
+    }
+
+    /** The raw history blocks, on their own connection (see {@link HistoryTable}). */
+    public HistoryTable history() {
+        return history;
     }
 
     /** How long the last committed write took, for the journal commit-time metric. */
@@ -348,6 +360,11 @@ public final class Journal implements AutoCloseable {
                     flushFailure = e;
                 }
                 closed = true;
+                try {
+                    history.close();
+                } catch (SQLException e) {
+                    LOG.debug("closing the history connection: {}", e.getMessage());
+                }
                 closeQuietly(aggregatesConnection);
                 closeQuietly(records);
             }
@@ -385,7 +402,7 @@ public final class Journal implements AutoCloseable {
     // ---- helpers -----------------------------------------------------------------------------------------------
 
     @FunctionalInterface
-    private interface SqlWork<T> {
+    interface SqlWork<T> {
         T run() throws SQLException;
     }
 
@@ -431,7 +448,7 @@ public final class Journal implements AutoCloseable {
         }
     }
 
-    private static <T> T inTransaction(Connection connection, SqlWork<T> work) throws SQLException {
+    static <T> T inTransaction(Connection connection, SqlWork<T> work) throws SQLException {
         try (Statement statement = connection.createStatement()) {
             statement.execute("BEGIN IMMEDIATE");
         }

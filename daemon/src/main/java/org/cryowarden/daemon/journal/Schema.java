@@ -68,7 +68,22 @@ final class Schema {
                     CREATE VIEW event_readable AS
                     SELECT seq, kind, strftime('%Y-%m-%dT%H:%M:%fZ', at_ms / 1000.0, 'unixepoch') AS at_utc,
                            subject, operator, payload
-                    FROM event""")));
+                    FROM event""")),
+            new Migration(2, "raw history blocks", List.of(
+                    """
+                    CREATE TABLE history_block (
+                        id         INTEGER PRIMARY KEY AUTOINCREMENT,
+                        channel    TEXT    NOT NULL CHECK (length(channel) > 0),
+                        first_ns   INTEGER NOT NULL,
+                        last_ns    INTEGER NOT NULL CHECK (last_ns >= first_ns),
+                        count      INTEGER NOT NULL CHECK (count > 0),
+                        sealed     INTEGER NOT NULL DEFAULT 0 CHECK (sealed IN (0, 1)),
+                        data       BLOB    NOT NULL,
+                        written_ms INTEGER NOT NULL
+                    )""",
+                    "CREATE INDEX history_block_channel ON history_block (channel, first_ns)",
+                    "CREATE INDEX history_block_last ON history_block (last_ns)",
+                    "CREATE INDEX history_block_open ON history_block (id) WHERE sealed = 0")));
 
     private Schema() {
     }

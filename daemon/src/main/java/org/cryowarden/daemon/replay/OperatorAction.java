@@ -131,6 +131,24 @@ public sealed interface OperatorAction {
         }
     }
 
+    /** The reset of a locked-out fill controller: the daemon's {@code reset} verb on a fill id. */
+    record ResetFill(Instant instant, String fillId, String operator) implements OperatorAction {
+        public ResetFill {
+            Objects.requireNonNull(instant, "instant");
+            Objects.requireNonNull(fillId, "fillId");
+        }
+
+        @Override
+        public String target() {
+            return fillId;
+        }
+
+        @Override
+        public CommandResult applyTo(Engine engine) {
+            return engine.resetFill(fillId, operator);
+        }
+    }
+
     record Bypass(Instant instant, String interlockId, String operator, String reason, Duration duration)
             implements OperatorAction {
         public Bypass {

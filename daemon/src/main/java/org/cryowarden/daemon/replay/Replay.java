@@ -20,14 +20,24 @@ import org.cryowarden.rules.engine.EngineEvent;
  *
  * <p>The clock starts at {@code start} and is moved to each input's instant. Ticks come every {@code tickPeriod}
  * from {@code start}, as the daemon's engine loop gives them, so on-delays, off-delays, stale timeouts and shelving
- * expiry fire at the tick where they fired live. At one instant the order is: the tick, then the readings (in the
- * order of the stream), then the operator actions (in the order given). The run ends at {@code until}: the last
+ * expiry fire at the tick where they fired live. At one instant the order is, by {@link Order}: the tick, then the
+ * readings (in the order of the stream), then the operator actions (in the order given); or, as the daemon's engine
+ * loop takes its work, the operator actions, then the readings, then the tick. The run ends at {@code until}: the last
  * tick is the last one at or before it, and readings or actions after it are not fed. Single-threaded; one run per
  * instance.
  */
 public final class Replay {
 
+    /** What comes first at one instant. */
+    public enum Order {
+        /** Tick, readings, actions. */
+        TICK_FIRST,
+        /** Actions, readings, tick: the daemon's engine loop (commands and readings waiting, then the timers). */
+        TICK_LAST
+    }
+
     private final EngineConfig config;
+    private final Order order;
     private final Instant start;
     private final Duration tickPeriod;
 
@@ -35,6 +45,14 @@ public final class Replay {
      * @throws IllegalArgumentException when the tick period is not positive
      */
     public Replay(EngineConfig config, Instant start, Duration tickPeriod) {
+        this(config, start, tickPeriod, Order.TICK_FIRST);
+    }
+
+    /**
+     * @throws IllegalArgumentException when the tick period is not positive
+     */
+    public Replay(EngineConfig config, Instant start, Duration tickPeriod, Order order) {
+        this.order = Objects.requireNonNull(order, "order");
         this.config = Objects.requireNonNull(config, "config");
         this.start = Objects.requireNonNull(start, "start");
         this.tickPeriod = Objects.requireNonNull(tickPeriod, "tickPeriod");
@@ -70,13 +88,16 @@ public final class Replay {
                     && !pendingActions.get(nextAction).instant().isAfter(until)
                     ? pendingActions.get(nextAction).instant() : null;
             Instant tickAt = nextTick.isAfter(until) ? null : nextTick;
-            if (tickAt != null && (readingAt == null || !readingAt.isBefore(tickAt))
-                    && (actionAt == null || !actionAt.isBefore(tickAt))) {
+            boolean tickLast = order == Order.TICK_LAST;
+            if (tickAt != null && (readingAt == null || (tickLast ? tickAt.isBefore(readingAt)
+                    : !readingAt.isBefore(tickAt)))
+                    && (actionAt == null || (tickLast ? tickAt.isBefore(actionAt) : !actionAt.isBefore(tickAt)))) {
                 now = advance(clock, now, tickAt);
                 events.addAll(engine.tick());
                 ticks++;
                 nextTick = nextTick.plus(tickPeriod);
-            } else if (readingAt != null && (actionAt == null || !actionAt.isBefore(readingAt))) {
+            } else if (readingAt != null && (actionAt == null
+                    || (tickLast ? actionAt.isAfter(readingAt) : !actionAt.isBefore(readingAt)))) {
                 if (readingAt.isBefore(now)) {
                     throw new IllegalArgumentException("reading of " + reading.channel() + " at " + readingAt
                             + " is earlier than the replay's clock at " + now

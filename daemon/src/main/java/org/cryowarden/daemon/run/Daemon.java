@@ -22,6 +22,7 @@ import java.util.concurrent.CopyOnWriteArrayList;
 import org.cryowarden.daemon.broker.BrokerStartException;
 import org.cryowarden.daemon.broker.EmbeddedBroker;
 import org.cryowarden.daemon.broker.PortChoice;
+import org.cryowarden.daemon.history.HistoryRecorder;
 import org.cryowarden.daemon.journal.AlarmStateRecord;
 import org.cryowarden.daemon.journal.Journal;
 import org.cryowarden.daemon.journal.JournalEvent;
@@ -97,6 +98,7 @@ public final class Daemon implements AutoCloseable {
     private final JournalSink journalSink;
     private final MqttBridge bridge;
     private final OutputWriter outputs;
+    private final HistoryRecorder history;
     private final PrometheusMeterRegistry metrics = new PrometheusMeterRegistry(PrometheusConfig.DEFAULT);
     private final List<java.util.function.Consumer<Recorded>> listeners = new CopyOnWriteArrayList<>();
     private final Instant started;
@@ -120,6 +122,12 @@ public final class Daemon implements AutoCloseable {
         this.brokerUri = broker.map(EmbeddedBroker::serverUri).orElseGet(() -> settings.broker().orElseThrow());
         this.started = time.wallNow();
         Engine engine = new Engine(EngineConfig.of(configuration.site(), configuration.rules()), time);
+        try {
+            this.history = HistoryRecorder.open(journal.history(), settings.history());
+        } catch (JournalException e) {
+            throw new StartException(e.getMessage(), e);
+        }
+        LOG.info("{}", history.restartNote());
         this.journalSink = new JournalSink(journal, settings.prefix() + "/event");
         OutputWriterRef outputRef = new OutputWriterRef();
         MqttBridgeRef bridgeRef = new MqttBridgeRef();
@@ -138,6 +146,16 @@ public final class Daemon implements AutoCloseable {
             @Override
             public void output(org.cryowarden.rules.engine.OutputCommand command) {
                 outputRef.writer.offer(command);
+            }
+
+            @Override
+            public void taken(Reading reading, Instant at) {
+                history.record(reading, at);
+            }
+
+            @Override
+            public void ticked(Instant at) {
+                history.tick(at);
             }
         });
         this.outputs = new OutputWriter(Map.of(), options.writeTimeout(), loop::outputResult);
@@ -215,6 +233,7 @@ public final class Daemon implements AutoCloseable {
 
     private void run() {
         journalSink.start();
+        history.start();
         outputs.start();
         bridge.start();
         ObjectNode payload = Payloads.object();
@@ -222,6 +241,8 @@ public final class Daemon implements AutoCloseable {
         payload.put("version", DaemonVersion.current());
         payload.put("site", configuration.site().name());
         payload.put("broker", brokerUri);
+        payload.put("site_file", siteFile.toAbsolutePath().normalize().toString());
+        payload.put("tick_period", options.tickEvery().toString());
         loop.announce(List.of(new DaemonEvent("daemon.started", time.wallNow(), Optional.empty(), Optional.empty(),
                 payload)));
         if (options.mode() == Mode.THREADS) {
@@ -607,6 +628,7 @@ public final class Daemon implements AutoCloseable {
             poller.close();
         }
         loop.close();
+        history.close();
         ObjectNode payload = Payloads.object();
         payload.put("cause", "cryowarden stopped");
         journalSink.offer(new EventBatch(List.of(new DaemonEvent("daemon.stopped", time.wallNow(), Optional.empty(),

@@ -7,6 +7,7 @@ import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.Optional;
+import org.cryowarden.daemon.history.HistorySettings;
 import org.cryowarden.rules.ConfigException;
 import org.cryowarden.rules.ConfigProblem;
 import org.cryowarden.rules.DurationSyntax;
@@ -22,7 +23,7 @@ import org.cryowarden.rules.model.SiteDef;
  * <pre>
  * mqtt:    {broker: embedded | tcp://HOST:PORT, port: 1883, prefix: cryowarden/harbour-hall, client_id: ...,
  *           username: ..., password_file: FILE, max_interval: 5min, deadbands: {CHANNEL: "0.05 %vol"}}
- * journal: {path: FILE, retention: 90d}
+ * journal: {path: FILE, retention: 90d, history_flush: 10s, history_retention: 14d}
  * api:     {port: 8741, token_file: FILE}
  * </pre>
  * Relative paths are resolved against the site file's folder.
@@ -30,6 +31,7 @@ import org.cryowarden.rules.model.SiteDef;
  * @param broker       an external broker ({@code tcp://HOST:PORT}); empty for the embedded one
  * @param embeddedPort the embedded broker's port on 127.0.0.1
  * @param apiPort      the HTTP API's port on 127.0.0.1; 0 picks a free one, empty turns the API off
+ * @param history      how raw history is flushed and kept
  */
 public record DaemonSettings(
         Optional<String> broker,
@@ -43,7 +45,8 @@ public record DaemonSettings(
         Path journalPath,
         Duration retention,
         Optional<Integer> apiPort,
-        Optional<Path> tokenFile) {
+        Optional<Path> tokenFile,
+        HistorySettings history) {
 
     public static final int DEFAULT_MQTT_PORT = 1883;
     public static final int DEFAULT_API_PORT = 8741;
@@ -121,10 +124,13 @@ public record DaemonSettings(
         });
 
         Section journal = new Section("journal", site.sections().get("journal"), problems);
-        journal.allowOnly("path", "retention");
+        journal.allowOnly("path", "retention", "history_flush", "history_retention");
         Path journalPath = journal.text("path").map(p -> siteFolder.resolve(p))
                 .orElse(siteFolder.resolve(slug + "-journal.db"));
         Duration retention = journal.duration("retention").orElse(Duration.ofDays(90));
+        HistorySettings history = HistorySettings.defaults();
+        history = history.withFlushEvery(journal.duration("history_flush").orElse(history.flushEvery()));
+        history = history.withRetention(journal.duration("history_retention").orElse(history.retention()));
 
         Section api = new Section("api", site.sections().get("api"), problems);
         api.allowOnly("port", "token_file", "enabled");
@@ -135,32 +141,37 @@ public record DaemonSettings(
             throw new ConfigException(problems);
         }
         return new DaemonSettings(broker, port, prefix, clientId, username, passwordFile, maxInterval, deadbands,
-                journalPath, retention, apiPort, tokenFile);
+                journalPath, retention, apiPort, tokenFile, history);
     }
 
     public DaemonSettings withBroker(Optional<String> uri, int port) {
         return new DaemonSettings(uri, port, prefix, clientId, username, passwordFile, maxInterval, deadbands,
-                journalPath, retention, apiPort, tokenFile);
+                journalPath, retention, apiPort, tokenFile, history);
     }
 
     public DaemonSettings withJournal(Path path) {
         return new DaemonSettings(broker, embeddedPort, prefix, clientId, username, passwordFile, maxInterval,
-                deadbands, path, retention, apiPort, tokenFile);
+                deadbands, path, retention, apiPort, tokenFile, history);
     }
 
     public DaemonSettings withPrefix(String topicPrefix, String client) {
         return new DaemonSettings(broker, embeddedPort, topicPrefix, client, username, passwordFile, maxInterval,
-                deadbands, journalPath, retention, apiPort, tokenFile);
+                deadbands, journalPath, retention, apiPort, tokenFile, history);
     }
 
     public DaemonSettings withApi(Optional<Integer> port, Optional<Path> token) {
         return new DaemonSettings(broker, embeddedPort, prefix, clientId, username, passwordFile, maxInterval,
-                deadbands, journalPath, retention, port, token);
+                deadbands, journalPath, retention, port, token, history);
     }
 
     public DaemonSettings withMaxInterval(Duration interval) {
         return new DaemonSettings(broker, embeddedPort, prefix, clientId, username, passwordFile, interval,
-                deadbands, journalPath, retention, apiPort, tokenFile);
+                deadbands, journalPath, retention, apiPort, tokenFile, history);
+    }
+
+    public DaemonSettings withHistory(HistorySettings settings) {
+        return new DaemonSettings(broker, embeddedPort, prefix, clientId, username, passwordFile, maxInterval,
+                deadbands, journalPath, retention, apiPort, tokenFile, settings);
     }
 
     private record DeadbandTarget(org.cryowarden.rules.Unit unit) {

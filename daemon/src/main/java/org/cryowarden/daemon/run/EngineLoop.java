@@ -56,6 +56,14 @@ final class EngineLoop implements AutoCloseable {
         void reading(Reading reading);
 
         void output(OutputCommand command);
+
+        /** Every reading the engine took, with the instant it took it (the raw history). */
+        default void taken(Reading reading, java.time.Instant at) {
+        }
+
+        /** After every engine tick, at the clock's instant (the raw history's flushes). */
+        default void ticked(java.time.Instant at) {
+        }
     }
 
     private final Inbox inbox = new Inbox();
@@ -130,6 +138,9 @@ final class EngineLoop implements AutoCloseable {
             } catch (RuntimeException e) {
                 LOG.error("command {} on {} failed", command.verb(), command.target(), e);
                 refusal = Optional.of("internal failure: " + e);
+            }
+            if (refusal.isEmpty()) {
+                sinks.batch(new EventBatch(List.of(command.accepted(time.wallNow())), Map.of(), Map.of(), summary()));
             }
             result.complete(refusal);
         });
@@ -220,6 +231,7 @@ final class EngineLoop implements AutoCloseable {
         }
         process(work);
         dispatch(engine.tick());
+        sinks.ticked(time.wallNow());
     }
 
     boolean idle() {
@@ -266,6 +278,7 @@ final class EngineLoop implements AutoCloseable {
                 if (lastTick == Long.MIN_VALUE || now - lastTick >= tickEvery.toNanos()) {
                     lastTick = now;
                     dispatch(engine.tick());
+                    sinks.ticked(time.wallNow());
                 }
             } catch (InterruptedException e) {
                 return;
@@ -290,6 +303,7 @@ final class EngineLoop implements AutoCloseable {
                 continue;
             }
             processed.incrementAndGet();
+            sinks.taken(reading, time.wallNow());
             lagNanos = Math.max(0, Duration.between(reading.timestamp(), time.wallNow()).toNanos());
             sinks.reading(engine.latest(reading.channel()).orElse(reading));
             for (String derived : derivedOf.getOrDefault(reading.channel(), List.of())) {

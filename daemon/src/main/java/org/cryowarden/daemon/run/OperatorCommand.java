@@ -40,6 +40,23 @@ public record OperatorCommand(String verb, String target, String operator, Strin
         Objects.requireNonNull(reason, "reason");
     }
 
+    /**
+     * The journal record of this command once the engine accepted it ({@code command.accepted}): every field, and the
+     * exact instant, so that a replay can give the same command at the same instant.
+     */
+    DaemonEvent accepted(java.time.Instant at) {
+        com.fasterxml.jackson.databind.node.ObjectNode payload = Payloads.object();
+        payload.put("cause", "operator command accepted");
+        payload.put("verb", verb);
+        payload.put("target", target);
+        payload.put("operator", operator);
+        payload.put("note", note);
+        duration.ifPresent(d -> payload.put("duration", d.toString()));
+        payload.put("reason", reason);
+        payload.put("instant", at.toString());
+        return new DaemonEvent("command.accepted", at, Optional.of(target), Optional.of(operator), payload);
+    }
+
     /** A parsed command or the reason it was refused, word for word what the reply carries. */
     public record Parsed(Optional<OperatorCommand> command, Optional<String> error) {
         static Parsed ok(OperatorCommand command) {
