@@ -55,7 +55,9 @@ class EngineLoopFillResetTest {
         loop.drain();
 
         assertThat(reset.get()).isEmpty();
-        assertThat(kinds(batches)).containsExactly("fill.reset trap-fill", "alarm.cleared trap-fill");
+        // The accepted command is journaled too, so that a replay can re-apply it.
+        assertThat(kinds(batches)).containsExactly("fill.reset trap-fill", "alarm.cleared trap-fill",
+                "command.accepted trap-fill");
         assertThat(batches.get(0).events().get(0).operator()).contains("night operator");
         assertThat(lastState(batches, "fill:trap-fill").orElseThrow()).contains("\"locked_out\":false");
         assertThat(batches.get(0).states()).containsKey("trap-fill");
