@@ -57,10 +57,17 @@ final class RunCommand implements Callable<Integer> {
     @Option(names = "--journal", paramLabel = "FILE", description = "journal file (overrides the site file)")
     Optional<Path> journal = Optional.empty();
 
+    @Option(names = "--log-file", paramLabel = "FILE",
+            description = "also log to this file, rolled daily and at 10 MB, 30 days kept (stdout stays on)")
+    Optional<Path> logFile = Optional.empty();
+
     @Override
     public Integer call() throws Exception {
         PrintWriter err = spec.commandLine().getErr();
         Logging.use("/org/cryowarden/daemon/run-logback.xml");
+        if (logFile.isPresent()) {
+            Logging.alsoToFile(logFile.get());
+        }
         DriverCatalog catalog = DriverCatalog.discover(RunCommand.class.getClassLoader(), plugins);
         Configuration configuration;
         DaemonSettings settings;
