@@ -7,21 +7,22 @@ import org.cryowarden.rules.Quality;
  * A 4-20 mA transmitter loop: linear scaling of the loop current to the channel's unit (4 mA is {@code low},
  * 20 mA is {@code high}) and failure signalling after NAMUR NE 43: below 3.6 mA or above 21 mA the transmitter
  * signals a failure (BAD), 3.8-20.5 mA is the measuring range (GOOD), the bands between are UNCERTAIN. The band
- * limits are from memory of NAMUR Recommendation NE 43 (Standardization of the Signal Level for the Failure
- * Information of Digital Transmitters); check them against the recommendation's table.
+ * limits are those of NAMUR Recommendation NE 43 (Standardization of the Signal Level for the Failure Information
+ * of Digital Transmitters) as published summaries of it state them (e.g. instrunexus.com, "An Interactive Guide to
+ * NAMUR NE 43"); the recommendation's own table has not been read.
  *
  * @param low  the value at 4 mA, in the channel's unit
  * @param high the value at 20 mA, in the channel's unit (may be below {@code low} for reverse-acting loops)
  */
 public record CurrentLoop(double low, double high) {
 
-    /** Below this the loop signals a failure (NE 43, from memory). */
+    /** Below this the loop signals a failure (NE 43). */
     public static final double FAILURE_LOW_MA = 3.6;
-    /** Above this the loop signals a failure (NE 43, from memory). */
+    /** Above this the loop signals a failure (NE 43). */
     public static final double FAILURE_HIGH_MA = 21.0;
-    /** Lower end of the measuring range, under-range included (NE 43, from memory). */
+    /** Lower end of the measuring range, under-range included (NE 43). */
     public static final double RANGE_LOW_MA = 3.8;
-    /** Upper end of the measuring range, over-range included (NE 43, from memory). */
+    /** Upper end of the measuring range, over-range included (NE 43). */
     public static final double RANGE_HIGH_MA = 20.5;
 
     public CurrentLoop {

@@ -22,7 +22,7 @@ class CurrentLoopTest {
 
     @Test
     void currentsBelowThreePointSixOrAboveTwentyOneSignalFailure() {
-        // NAMUR NE 43 (band limits from memory): < 3.6 mA or > 21 mA is a failure signal.
+        // NAMUR NE 43 band limits as published summaries state them (instrunexus.com NE 43 guide): < 3.6 mA or > 21 mA is a failure signal.
         CurrentLoop.Value low = level.convert(3.59);
         CurrentLoop.Value high = level.convert(21.2);
         CurrentLoop.Value open = level.convert(0.0);
@@ -36,7 +36,7 @@ class CurrentLoopTest {
 
     @Test
     void measuringRangeIsGoodAndTheBandsBetweenAreUncertain() {
-        // NAMUR NE 43 (from memory): 3.8-20.5 mA measuring range; 3.6-3.8 and 20.5-21 neither valid nor failure.
+        // NAMUR NE 43 (instrunexus.com NE 43 guide): 3.8-20.5 mA measuring range; 3.6-3.8 and 20.5-21 neither valid nor failure.
         assertThat(level.convert(3.8).quality()).isEqualTo(Quality.GOOD);
         assertThat(level.convert(20.5).quality()).isEqualTo(Quality.GOOD);
         CurrentLoop.Value under = level.convert(3.7);

@@ -30,7 +30,7 @@ class ModbusRtuDriverTest {
 
     @Test
     void loopCurrentBelowThreePointSixMilliampsReadsBadWireBreak() throws Exception {
-        // NAMUR NE 43 (from memory): 2.1 mA on a 4-20 mA loop signals a failure.
+        // NAMUR NE 43 (instrunexus.com NE 43 guide: below 3.6 mA is a failure): 2.1 mA on a 4-20 mA loop signals a failure.
         List<Reading> readings = poll(new ModbusTestDevice(4).input(0, 2_100), "o2-east");
 
         assertThat(readings).singleElement().satisfies(r -> {
