@@ -100,7 +100,6 @@ public final class Daemon implements AutoCloseable {
     private final MqttBridge bridge;
     private final OutputWriter outputs;
     private final HistoryRecorder history;
-    private final NightSettings night;
     private final Optional<NotifyService> notifications;
     private final Optional<CommonAlarmContact> contact;
     private final Watchdog watchdog;
@@ -119,7 +118,6 @@ public final class Daemon implements AutoCloseable {
             NightSettings night, SystemdNotify systemd, DriverCatalog catalog, TimeSource time, Options options,
             Journal journal, Optional<EmbeddedBroker> broker) throws StartException {
         this.siteFile = siteFile;
-        this.night = night;
         this.systemd = systemd;
         this.ruleFiles = List.copyOf(ruleFiles);
         this.configuration = configuration;
@@ -690,7 +688,9 @@ public final class Daemon implements AutoCloseable {
         journalSink.offer(new EventBatch(List.of(new DaemonEvent("daemon.stopped", time.wallNow(), Optional.empty(),
                 Optional.empty(), payload)), Map.of(), Map.of(), Payloads.object()));
         journalSink.close();
-        notifications.ifPresent(NotifyService::runDue);
+        if (options.mode() == Mode.DRIVEN) {
+            notifications.ifPresent(NotifyService::runDue); // with threads, the notify thread's own last round
+        }
         notifications.ifPresent(NotifyService::close);
         outputs.close();
         bridge.close(Payloads.text(Payloads.status("offline", "shutdown", DaemonVersion.current(),
