@@ -5,6 +5,7 @@ import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.concurrent.Callable;
+import org.cryowarden.daemon.run.NightSettings;
 import org.cryowarden.rules.ConfigException;
 import org.cryowarden.rules.ConfigProblem;
 import org.cryowarden.rules.config.Configuration;
@@ -101,7 +102,15 @@ final class CheckCommand implements Callable<Integer> {
             err.flush();
             return INVALID;
         }
-        out.println(summary(configuration));
+        NightSettings night;
+        try {
+            // The notifiers (roster, secret files), watchdog and common-alarm sections, read as run reads them.
+            night = NightSettings.read(configuration, RunCommand.folder(site));
+        } catch (ConfigException e) {
+            return RunCommand.refuse(err, e);
+        }
+        out.println(summary(configuration) + night.notifiers().map(n -> "; notifiers: " + n.senderIds().size()
+                + " senders, " + n.roster().contacts().size() + " contacts on the roster").orElse(""));
         out.flush();
         return VALID;
     }

@@ -12,6 +12,7 @@ import java.util.concurrent.CountDownLatch;
 import org.cryowarden.daemon.api.ApiServer;
 import org.cryowarden.daemon.run.Daemon;
 import org.cryowarden.daemon.run.DaemonSettings;
+import org.cryowarden.daemon.run.NightSettings;
 import org.cryowarden.daemon.run.SiteSetup;
 import org.cryowarden.drivers.plugin.DriverCatalog;
 import org.cryowarden.rules.ConfigException;
@@ -71,9 +72,11 @@ final class RunCommand implements Callable<Integer> {
         DriverCatalog catalog = DriverCatalog.discover(RunCommand.class.getClassLoader(), plugins);
         Configuration configuration;
         DaemonSettings settings;
+        NightSettings night;
         try {
             configuration = SiteSetup.load(site, rules, catalog, TimeSource.system());
             settings = DaemonSettings.read(configuration.site(), folder(site));
+            night = NightSettings.read(configuration, folder(site));
         } catch (ConfigException e) {
             return refuse(err, e);
         }
@@ -82,7 +85,7 @@ final class RunCommand implements Callable<Integer> {
         }
         Daemon daemon;
         try {
-            daemon = Daemon.start(site, rules, configuration, settings, catalog, TimeSource.system(),
+            daemon = Daemon.start(site, rules, configuration, settings, night, catalog, TimeSource.system(),
                     Daemon.Options.defaults());
         } catch (Daemon.StartException e) {
             err.println("cannot start: " + e.getMessage());

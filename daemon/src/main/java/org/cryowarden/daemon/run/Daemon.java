@@ -30,6 +30,7 @@ import org.cryowarden.daemon.journal.JournalException;
 import org.cryowarden.daemon.journal.JournalSettings;
 import org.cryowarden.daemon.mqtt.MqttLink;
 import org.cryowarden.daemon.mqtt.MqttLinkSettings;
+import org.cryowarden.daemon.notify.NotifyService;
 import org.cryowarden.drivers.plugin.DriverCatalog;
 import org.cryowarden.drivers.site.SiteDrivers;
 import org.cryowarden.drivers.poll.Backoff;
@@ -99,6 +100,12 @@ public final class Daemon implements AutoCloseable {
     private final MqttBridge bridge;
     private final OutputWriter outputs;
     private final HistoryRecorder history;
+    private final Optional<NotifyService> notifications;
+    private final Optional<CommonAlarmContact> contact;
+    private final Watchdog watchdog;
+    private final SystemdNotify systemd;
+    private final java.util.concurrent.atomic.AtomicLong eventsRecorded = new java.util.concurrent.atomic.AtomicLong();
+    private volatile ObjectNode lastSummary = Payloads.object();
     private final PrometheusMeterRegistry metrics = new PrometheusMeterRegistry(PrometheusConfig.DEFAULT);
     private final List<java.util.function.Consumer<Recorded>> listeners = new CopyOnWriteArrayList<>();
     private final Instant started;
@@ -108,9 +115,10 @@ public final class Daemon implements AutoCloseable {
     private boolean closed;
 
     private Daemon(Path siteFile, List<Path> ruleFiles, Configuration configuration, DaemonSettings settings,
-            DriverCatalog catalog, TimeSource time, Options options, Journal journal, Optional<EmbeddedBroker> broker)
-            throws StartException {
+            NightSettings night, SystemdNotify systemd, DriverCatalog catalog, TimeSource time, Options options,
+            Journal journal, Optional<EmbeddedBroker> broker) throws StartException {
         this.siteFile = siteFile;
+        this.systemd = systemd;
         this.ruleFiles = List.copyOf(ruleFiles);
         this.configuration = configuration;
         this.settings = settings;
@@ -173,6 +181,17 @@ public final class Daemon implements AutoCloseable {
                 this::commandRefused);
         bridgeRef.bridge = bridge;
         journalSink.addListener(bridge);
+        this.notifications = night.notifiers().map(setup -> setup.service(journal, time, configuration.site().name()));
+        this.contact = night.commonAlarm().map(c -> new CommonAlarmContact(c, time, outputs::offer));
+        journalSink.addListener(committed -> {
+            eventsRecorded.addAndGet(committed.seqs().stream().filter(java.util.OptionalLong::isPresent).count());
+            if (committed.batch().summary().has("active")) {
+                lastSummary = committed.batch().summary();
+                contact.ifPresent(c -> c.summary(committed.batch().summary()));
+            }
+            notifications.ifPresent(n -> n.accept(committed.batch().events(), committed.seqs()));
+        });
+        this.watchdog = new Watchdog(time, night, systemd, new WatchdogParts());
         journalSink.addListener(committed -> {
             Recorded recorded = new Recorded(committed.batch().events(), committed.seqs(), committed.batch().alarms());
             listeners.forEach(l -> l.accept(recorded));
@@ -198,6 +217,32 @@ public final class Daemon implements AutoCloseable {
      */
     public static Daemon start(Path siteFile, List<Path> ruleFiles, Configuration configuration,
             DaemonSettings settings, DriverCatalog catalog, TimeSource time, Options options) throws StartException {
+        NightSettings night;
+        try {
+            Path parent = siteFile.toAbsolutePath().getParent();
+            night = NightSettings.read(configuration, parent == null ? Path.of(".") : parent);
+        } catch (ConfigException e) {
+            throw new StartException(e.problems().stream().map(ConfigProblem::toString)
+                    .collect(java.util.stream.Collectors.joining("; ")), e);
+        }
+        return start(siteFile, ruleFiles, configuration, settings, night, catalog, time, options);
+    }
+
+    /**
+     * Starts the daemon with its notifiers, watchdog and common-alarm contact as read by
+     * {@link NightSettings#read}. Under systemd ({@code NOTIFY_SOCKET} set) and with its own threads, it tells
+     * systemd {@code READY=1}, {@code WATCHDOG=1} while healthy and {@code STOPPING=1}.
+     */
+    public static Daemon start(Path siteFile, List<Path> ruleFiles, Configuration configuration,
+            DaemonSettings settings, NightSettings night, DriverCatalog catalog, TimeSource time, Options options)
+            throws StartException {
+        return start(siteFile, ruleFiles, configuration, settings, night, options.mode() == Mode.THREADS
+                ? SystemdNotify.fromEnvironment(System.getenv()) : SystemdNotify.none(), catalog, time, options);
+    }
+
+    static Daemon start(Path siteFile, List<Path> ruleFiles, Configuration configuration, DaemonSettings settings,
+            NightSettings night, SystemdNotify systemd, DriverCatalog catalog, TimeSource time, Options options)
+            throws StartException {
         Journal journal;
         try {
             journal = Journal.open(settings.journalPath(),
@@ -220,8 +265,8 @@ public final class Daemon implements AutoCloseable {
         }
         Daemon daemon;
         try {
-            daemon = new Daemon(siteFile, ruleFiles, configuration, settings, catalog, time, options, journal,
-                    broker);
+            daemon = new Daemon(siteFile, ruleFiles, configuration, settings, night, systemd, catalog, time, options,
+                    journal, broker);
         } catch (StartException | RuntimeException e) {
             broker.ifPresent(EmbeddedBroker::close);
             closeQuietly(journal);
@@ -250,7 +295,10 @@ public final class Daemon implements AutoCloseable {
             for (BusPoller poller : pollers) {
                 poller.start();
             }
+            notifications.ifPresent(NotifyService::start);
+            watchdog.start();
         }
+        systemd.send("READY=1");
         LOG.info("cryowarden running: site '{}', {} buses, {} channels, {} rules; MQTT {} under {}/; journal {}",
                 configuration.site().name(), pollers.size(), configuration.channelCount(),
                 configuration.rules().rules().size(), brokerUri, settings.prefix(), journal.file());
@@ -295,12 +343,14 @@ public final class Daemon implements AutoCloseable {
      * readings and tick, on the caller's thread. Returns the monotonic time (ns) when a poll is next due.
      */
     public long step() {
+        notifications.ifPresent(NotifyService::runDue);
         long next = Long.MAX_VALUE;
         for (BusPoller poller : pollers) {
             long due = poller.runDue();
             next = Math.min(next, due);
         }
         loop.drain();
+        watchdog.runDue();
         return next;
     }
 
@@ -436,6 +486,7 @@ public final class Daemon implements AutoCloseable {
         node.put("readings_processed", loop.processed());
         node.put("reading_drops", loop.drops());
         node.put("outbox_depth", bridge.outboxDepth());
+        node.put("watchdog_healthy", watchdog.healthy());
         ArrayNode buses = node.putArray("buses");
         for (BusPoller poller : pollers) {
             ObjectNode bus = buses.addObject();
@@ -624,6 +675,9 @@ public final class Daemon implements AutoCloseable {
         }
         closed = true;
         LOG.info("cryowarden stopping");
+        systemd.send("STOPPING=1");
+        watchdog.close();
+        dropContact();
         for (BusPoller poller : pollers) {
             poller.close();
         }
@@ -634,12 +688,86 @@ public final class Daemon implements AutoCloseable {
         journalSink.offer(new EventBatch(List.of(new DaemonEvent("daemon.stopped", time.wallNow(), Optional.empty(),
                 Optional.empty(), payload)), Map.of(), Map.of(), Payloads.object()));
         journalSink.close();
+        if (options.mode() == Mode.DRIVEN) {
+            notifications.ifPresent(NotifyService::runDue); // with threads, the notify thread's own last round
+        }
+        notifications.ifPresent(NotifyService::close);
         outputs.close();
         bridge.close(Payloads.text(Payloads.status("offline", "shutdown", DaemonVersion.current(),
                 Optional.of(started))).getBytes(StandardCharsets.UTF_8));
         closeQuietly(journal);
         broker.ifPresent(EmbeddedBroker::close);
         LOG.info("cryowarden stopped");
+    }
+
+    /** Drops the common-alarm contact and waits (bounded) until the relay module confirmed it. */
+    private void dropContact() {
+        if (contact.isEmpty()) {
+            return;
+        }
+        contact.get().stop();
+        long deadline = System.nanoTime() + options.writeTimeout().toNanos();
+        while (!outputs.idle() && System.nanoTime() < deadline) {
+            if (options.mode() == Mode.DRIVEN) {
+                for (BusPoller poller : pollers) {
+                    poller.runDue(); // nobody else runs the poller rounds that carry the write
+                }
+            }
+            try {
+                Thread.sleep(1);
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+                return;
+            }
+        }
+    }
+
+    /** The watchdog's view of this daemon. */
+    private final class WatchdogParts implements Watchdog.Parts {
+        @Override
+        public void submitToEngine(Runnable probe) {
+            loop.submit(probe);
+        }
+
+        @Override
+        public Map<String, Long> pollerRounds() {
+            Map<String, Long> rounds = new LinkedHashMap<>();
+            for (BusPoller poller : pollers) {
+                rounds.put(poller.busId(), poller.lastRoundNanos());
+            }
+            return rounds;
+        }
+
+        @Override
+        public void record(List<DaemonEvent> events) {
+            journalSink.offer(new EventBatch(events, Map.of(), Map.of(), lastSummary));
+        }
+
+        @Override
+        public ObjectNode counters() {
+            ObjectNode node = Payloads.object();
+            node.put("started", started.toString());
+            node.put("readings_processed", loop.processed());
+            node.put("reading_drops", loop.drops());
+            node.put("events_recorded", eventsRecorded.get());
+            node.put("engine_queue_depth", loop.depth());
+            node.put("journal_queue_depth", journalSink.depth());
+            node.put("mqtt_outbox_depth", bridge.outboxDepth());
+            node.put("output_queue_depth", outputs.depth());
+            contact.ifPresent(c -> node.put("common_alarm", c.energised() ? "energised" : "dropped"));
+            return node;
+        }
+
+        @Override
+        public void heartbeat(ObjectNode document) {
+            bridge.publishHeartbeat(Payloads.text(document));
+            contact.ifPresent(CommonAlarmContact::refresh);
+        }
+
+        @Override
+        public void health(boolean healthy) {
+            contact.ifPresent(c -> c.health(healthy));
+        }
     }
 
     private static String readSecret(Optional<Path> file) {

@@ -165,6 +165,14 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
         }
     }
 
+    /** Publishes the watchdog's heartbeat on {@code <prefix>/heartbeat} (QoS 0, not retained) while connected. */
+    void publishHeartbeat(String document) {
+        if (link.isConnected()) {
+            link.publish(OutgoingMessage.atMostOnce(prefix + "/heartbeat",
+                    document.getBytes(java.nio.charset.StandardCharsets.UTF_8), false));
+        }
+    }
+
     long readingsPublished() {
         return readingsPublished.get();
     }

@@ -30,7 +30,7 @@ class CheckCommandTest {
         // 20 rules plus the two helium forecast rules of the example rule set (he-dewar-1-empty-by-morning,
         // he-dewar-1-nearly-empty); the interlock is counted on its own.
         assertThat(out.toString()).isEqualTo("valid: site 'Harbour Hall low-temperature lab': 17 channels "
-                + "(12 measured, 5 derived), 2 outputs, 22 rules, 1 interlock from 1 rule file; 3 buses, "
+                + "(12 measured, 5 derived), 3 outputs, 22 rules, 1 interlock from 1 rule file; 3 buses, "
                 + "5 instruments" + System.lineSeparator());
         assertThat(err.toString()).isEmpty();
     }
@@ -106,6 +106,44 @@ class CheckCommandTest {
     void missingSiteOptionIsBadInput() {
         assertThat(run("check")).isEqualTo(2);
         assertThat(err.toString()).startsWith("Missing required option: '--site=FILE'");
+    }
+
+    @Test
+    void notifiersWatchdogAndCommonAlarmMistakesAreReportedWithFileLineAndColumn() throws IOException {
+        Path site = folder.resolve("harbour-hall-site.yaml");
+        String text = Files.readString(Path.of(SITE))
+                .replace("common_alarm: {output: common-alarm, priority: high}",
+                        "common_alarm: {output: comon-alarm, priority: urgent}")
+                .replace("watchdog: {heartbeat: 10s, engine_stall: 30s, poller_stall: 2min}",
+                        "watchdog: {heartbeat: 10s, engine_stall: 30s, poller_stall: 40s}");
+        Files.writeString(site, text + """
+                notifiers:
+                  roster: lab-roster.yaml
+                  senders:
+                    - {id: pager-hook, kind: webhok, url: "https://pager.example/hook"}
+                    - {id: lab-mail, kind: email, host: smtp.example.org, from: cryowarden@example.org,
+                       username: cryowarden, password_file: smtp-password}
+                """);
+        int lines = (int) text.lines().count();
+
+        int exit = run("check", "--site", site.toString(), "--rules", RULES);
+
+        assertThat(exit).isEqualTo(2);
+        int common = (int) text.lines().takeWhile(l -> !l.startsWith("common_alarm:")).count() + 1;
+        int watchdog = common + 1;
+        assertThat(err.toString().lines()).containsExactly(
+                // The level meters poll every 30 s, so a poller may be quiet that long between rounds.
+                site + ":" + watchdog + ":61: poller_stall 40 s must be longer than twice the longest channel"
+                        + " period (30 s), or a quiet bus reads as stalled",
+                site + ":" + common + ":47: priority in common_alarm must be one of critical, high, low, medium,"
+                        + " got 'urgent'",
+                site + ":" + common + ":24: common_alarm output 'comon-alarm' is no output of the site; did you mean"
+                        + " 'common-alarm'?",
+                site + ":" + (lines + 4) + ":30: sender 'pager-hook' has unknown kind 'webhok'; did you mean"
+                        + " 'webhook'?",
+                site + ":" + (lines + 6) + ":45: cannot read password_file " + folder.resolve("smtp-password")
+                        + ": no such file",
+                "5 errors found; nothing was started");
     }
 
     private int run(String... args) {

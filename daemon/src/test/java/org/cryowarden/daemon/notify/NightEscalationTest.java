@@ -154,6 +154,59 @@ class NightEscalationTest {
     }
 
     @Test
+    void quietHoursHoldNonCriticalNoticesUntilTheirEndButCriticalOnesGoAtOnce() throws Exception {
+        String roster = ROSTER.replace("""
+                      - {sender: lab-mail, to: ines.okafor@harbour-hall.example}
+                """, """
+                      - {sender: lab-mail, to: ines.okafor@harbour-hall.example}
+                    quiet_hours: {from: "21:30", to: "06:30"}
+                """);
+        try (WebhookReceiver receiver = new WebhookReceiver();
+                NightHarness night = new NightHarness(folder, roster, receiver.url(), Optional.empty())) {
+            // 22:00 UTC: inside Ines's quiet hours (21:30-06:30, roster zone UTC).
+            night.raise("ovc-vacuum-poor", "high", "insulating vacuum 2e-3 mbar above 1e-4 mbar");
+            night.pass(Duration.ofMinutes(5), Duration.ofMinutes(1));
+            assertThat(calls(receiver)).isEmpty();
+            night.raise("o2-east-low", "critical", "oxygen 18.9 %vol below 19.5 %vol");
+            assertThat(calls(receiver)).containsExactly("a101.s1.ines ines alarm");
+            night.acknowledge("o2-east-low", "critical", "Ines Okafor");
+            // Until 06:29 nothing more; at 06:30 the held high-priority page goes.
+            night.pass(Duration.ofHours(8).plusMinutes(24), Duration.ofMinutes(1));
+            assertThat(calls(receiver)).containsExactly("a101.s1.ines ines alarm");
+            night.pass(Duration.ofMinutes(2), Duration.ofMinutes(1));
+            assertThat(calls(receiver)).containsExactly("a101.s1.ines ines alarm", "a100.s1.ines ines alarm");
+            assertThat(night.time.wallNow()).isAfterOrEqualTo(java.time.Instant.parse("2025-11-15T06:30:00Z"));
+        }
+    }
+
+    @Test
+    void unacknowledgedAlarmGoesToTheFallbackAfterItsRemindersAndThenStops() throws Exception {
+        String roster = ROSTER.replace("""
+                      - {after: 10min, notify: [tomas]}
+                    repeat: {every: 15min, times: 1}
+                """, """
+                    repeat: {every: 5min, times: 1}
+                    fallback: {after: 5min, notify: [tomas]}
+                """);
+        try (WebhookReceiver receiver = new WebhookReceiver();
+                NightHarness night = new NightHarness(folder, roster.replace("pacing: 1min", "pacing: 0s"),
+                        receiver.url(), Optional.empty())) {
+            night.raise("o2-east-low", "critical", "oxygen 18.9 %vol below 19.5 %vol");
+            night.pass(Duration.ofMinutes(4), Duration.ofSeconds(10));
+            assertThat(calls(receiver)).containsExactly("a100.s1.ines ines alarm");
+            night.pass(Duration.ofMinutes(2), Duration.ofSeconds(10));
+            assertThat(calls(receiver)).containsExactly("a100.s1.ines ines alarm", "a100.s2.ines ines reminder");
+            night.pass(Duration.ofMinutes(5), Duration.ofSeconds(10));
+            assertThat(calls(receiver)).containsExactly("a100.s1.ines ines alarm", "a100.s2.ines ines reminder",
+                    "a100.s3.tomas tomas alarm");
+            JsonNode fallback = json(receiver.calls().get(2).text());
+            assertThat(fallback.path("reason").asText()).isEqualTo("fallback: nobody acknowledged in 10min");
+            night.pass(Duration.ofHours(1), Duration.ofMinutes(1));
+            assertThat(receiver.calls()).hasSize(3);
+        }
+    }
+
+    @Test
     void signatureHeaderIsTheHmacSha256OfTheBody() throws Exception {
         // RFC 4231 section 4.3, test case 2: key "Jefe", data "what do ya want for nothing?".
         assertThat(hmacHex("Jefe".getBytes(StandardCharsets.US_ASCII),

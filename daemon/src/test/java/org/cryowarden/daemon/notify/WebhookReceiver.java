@@ -8,20 +8,20 @@ import java.util.List;
 import java.util.concurrent.atomic.AtomicBoolean;
 
 /** A local HTTP receiver for webhook tests: records every POST it accepts; answers 503 while {@link #down}. */
-final class WebhookReceiver implements AutoCloseable {
+public final class WebhookReceiver implements AutoCloseable {
 
-    record Call(String id, String signature, byte[] body) {
-        String text() {
+    public record Call(String id, String signature, byte[] body) {
+        public String text() {
             return new String(body, java.nio.charset.StandardCharsets.UTF_8);
         }
     }
 
-    final AtomicBoolean down = new AtomicBoolean();
+    public final AtomicBoolean down = new AtomicBoolean();
     private final HttpServer server;
     private final List<Call> calls = new ArrayList<>();
     private int refused;
 
-    WebhookReceiver() throws IOException {
+    public WebhookReceiver() throws IOException {
         server = HttpServer.create(new InetSocketAddress("127.0.0.1", 0), 0);
         server.createContext("/hook", exchange -> {
             byte[] body = exchange.getRequestBody().readAllBytes();
@@ -39,15 +39,15 @@ final class WebhookReceiver implements AutoCloseable {
         server.start();
     }
 
-    String url() {
+    public String url() {
         return "http://127.0.0.1:" + server.getAddress().getPort() + "/hook";
     }
 
-    synchronized List<Call> calls() {
+    public synchronized List<Call> calls() {
         return List.copyOf(calls);
     }
 
-    synchronized int refused() {
+    public synchronized int refused() {
         return refused;
     }
 

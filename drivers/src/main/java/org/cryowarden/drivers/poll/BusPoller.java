@@ -53,6 +53,7 @@ public final class BusPoller implements AutoCloseable {
     private final Condition wake = wakeLock.newCondition();
 
     private volatile boolean transportUp;
+    private volatile long lastRoundNanos;
     private long nextReopenAt;
     private int failedReopens;
     private String downReason = "not opened yet";
@@ -74,6 +75,7 @@ public final class BusPoller implements AutoCloseable {
             }
         }
         this.nextReopenAt = now;
+        this.lastRoundNanos = now;
     }
 
     public String busId() {
@@ -111,6 +113,7 @@ public final class BusPoller implements AutoCloseable {
         if (!transportUp) {
             next = earlier(next, nextReopenAt);
         }
+        lastRoundNanos = now;
         return next == Long.MAX_VALUE ? now + Duration.ofSeconds(1).toNanos() : next;
     }
 
@@ -139,6 +142,14 @@ public final class BusPoller implements AutoCloseable {
     /** Bus-level counters: transport failures, reopen attempts and failures, driver errors, sink errors. */
     public Map<String, Long> counters() {
         return counters.snapshot();
+    }
+
+    /**
+     * The monotonic time (ns) at which the last round started, or construction: a watchdog's sign that the poller
+     * still polls. A poller whose device hangs past its timeouts, or whose thread died, stops moving it.
+     */
+    public long lastRoundNanos() {
+        return lastRoundNanos;
     }
 
     /** True while the transport is believed up. Poller thread's view; for status displays. */

@@ -1,0 +1,285 @@
+package org.cryowarden.daemon.demo;
+
+import static org.assertj.core.api.Assertions.assertThat;
+
+import com.fasterxml.jackson.databind.JsonNode;
+import com.fasterxml.jackson.databind.ObjectMapper;
+import com.icegreen.greenmail.junit5.GreenMailExtension;
+import com.icegreen.greenmail.util.ServerSetupTest;
+import jakarta.mail.internet.MimeMessage;
+import java.net.InetAddress;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.time.Duration;
+import java.time.Instant;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Optional;
+import java.util.function.BooleanSupplier;
+import org.cryowarden.daemon.notify.WebhookReceiver;
+import org.cryowarden.daemon.run.Daemon;
+import org.cryowarden.daemon.run.DaemonSettings;
+import org.cryowarden.daemon.run.NightSettings;
+import org.cryowarden.daemon.run.OperatorCommand;
+import org.cryowarden.daemon.run.SiteSetup;
+import org.cryowarden.drivers.plugin.DriverCatalog;
+import org.cryowarden.rules.VirtualTimeSource;
+import org.cryowarden.rules.config.Configuration;
+import org.cryowarden.simulator.EmulatorOptions;
+import org.cryowarden.simulator.Endpoint;
+import org.cryowarden.simulator.Simulator;
+import org.cryowarden.simulator.emulators.RelayModule;
+import org.cryowarden.simulator.scenario.Scenario;
+import org.cryowarden.simulator.scenario.ScenarioReader;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.extension.RegisterExtension;
+import org.junit.jupiter.api.io.TempDir;
+
+/**
+ * The example site's quench night, brought forward to the first simulated minutes, through the running daemon
+ * (driven, one virtual clock with the simulator): the critical oxygen alarm pages the on-call contact by webhook
+ * and e-mail, the second contact after the escalation wait, the acknowledgement tells the first who took it, and
+ * the building common-alarm coil of the emulated relay module follows the night.
+ */
+class UnattendedNightTest {
+
+    @RegisterExtension
+    static GreenMailExtension smtp = new GreenMailExtension(ServerSetupTest.SMTP);
+
+    private static final ObjectMapper JSON = new ObjectMapper();
+
+    @TempDir
+    Path folder;
+
+    private static final String ROSTER = """
+            time_zone: UTC
+            contacts:
+              - id: ines
+                name: Ines Okafor
+                reach:
+                  - {sender: pager-hook}
+                  - {sender: lab-mail, to: ines.okafor@harbour-hall.example}
+              - id: tomas
+                name: Tomas Reyes
+                reach:
+                  - {sender: pager-hook}
+                  - {sender: lab-mail, to: tomas.reyes@harbour-hall.example}
+            schedule:
+              shifts:
+                - {days: [mon, tue, wed, thu, fri, sat, sun], from: "18:00", to: "08:00", on_call: [ines]}
+              otherwise: [tomas]
+            escalation:
+              critical:
+                steps:
+                  - notify: [on-call]
+                  - {after: 1min, notify: [tomas]}
+            pacing: 0s
+            """;
+
+    @Test
+    void criticalAlarmPagesOnCallThenSecondContactAndTheRelayContactDropsAtTheAlarm() throws Exception {
+        try (WebhookReceiver receiver = new WebhookReceiver();
+                Plant plant = Plant.start(folder, "harbour-hall-quench-scenario.yaml", Optional.of(receiver.url()))) {
+            Stepper stepper = plant.stepper;
+            Daemon daemon = plant.daemon;
+            stepper.until(() -> !calls(receiver, "ines", "alarm").isEmpty(), 400);
+            Instant paged = plant.clock.wallNow();
+            JsonNode first = calls(receiver, "ines", "alarm").get(0);
+            assertThat(first.path("id").asText()).endsWith(".s1.ines");
+            assertThat(first.path("priority").asText()).isEqualTo("critical");
+            assertThat(calls(receiver, "tomas", "alarm")).isEmpty();
+            // Fail-safe contact: off before the daemon ran, energised once the first summary was clear, dropped
+            // at the critical alarm (its write goes out in the step after the alarm was recorded).
+            assertThat(stepper.coil).containsExactly("off", "on", "off");
+            Instant firstHigh = plant.daemon.eventsAfter(0, 100_000).stream()
+                    .filter(e -> e.kind().equals("alarm.raised") && (e.payloadJson().contains("\"priority\":\"high\"")
+                            || e.payloadJson().contains("\"priority\":\"critical\"")))
+                    .map(e -> e.at()).findFirst().orElseThrow();
+            // The site's common_alarm priority is high: the first high (or critical) alarm drops it.
+            assertThat(Duration.between(firstHigh, stepper.droppedAt)).isBetween(Duration.ZERO,
+                    Duration.ofSeconds(2));
+            assertThat(stepper.droppedAt).isBeforeOrEqualTo(paged);
+            stepper.until(() -> !calls(receiver, "tomas", "alarm").isEmpty(), 100);
+            // The roster's second step waits 1 min after the first; the driven steps are 1 s.
+            assertThat(Duration.between(paged, plant.clock.wallNow())).isBetween(Duration.ofSeconds(58),
+                    Duration.ofSeconds(65));
+            String alarm = calls(receiver, "tomas", "alarm").get(0).path("alarm").asText();
+            assertThat(alarm).isEqualTo(first.path("alarm").asText());
+            var ack = daemon.command(new OperatorCommand("ack", alarm, "Tomas Reyes", "on my way",
+                    Optional.empty(), "")); // driven: the engine takes it at the next step
+            stepper.until(ack::isDone, 5);
+            assertThat(ack.get()).isEmpty();
+            stepper.until(() -> !calls(receiver, "ines", "taken").isEmpty(), 30);
+            assertThat(calls(receiver, "ines", "taken").get(0).path("operator").asText()).isEqualTo("Tomas Reyes");
+            stepper.steps(10); // acknowledged: nothing further for this alarm
+            assertThat(receiver.calls().stream().map(c -> json(c.text()))
+                    .filter(j -> j.path("alarm").asText().equals(alarm)).map(j -> j.path("id").asText()
+                            .replaceFirst("^a\\d+", "a")).toList())
+                    .containsExactly("a.s1.ines", "a.s2.tomas", "a.taken.ines");
+            // The same notices by e-mail, one per contact and notice, each with its notice id.
+            long deadline = System.nanoTime() + Duration.ofSeconds(10).toNanos();
+            while (smtp.getReceivedMessages().length < 3 && System.nanoTime() < deadline) {
+                Thread.sleep(10);
+            }
+            List<String> mails = new ArrayList<>();
+            for (MimeMessage mail : smtp.getReceivedMessages()) {
+                mails.add(mail.getAllRecipients()[0] + " " + mail.getHeader("X-Cryowarden-Notice")[0]);
+            }
+            assertThat(mails).anyMatch(m -> m.startsWith("ines.okafor@") && m.endsWith(".s1.ines"));
+            assertThat(mails).anyMatch(m -> m.startsWith("tomas.reyes@") && m.endsWith(".s2.tomas"));
+            assertThat(mails).anyMatch(m -> m.startsWith("ines.okafor@") && m.endsWith(".taken.ines"));
+            assertThat(plant.journalKinds()).contains("notify.queued", "notify.sent");
+        }
+    }
+
+    @Test
+    void relayContactIsEnergisedWhileAllIsWellAndDropsWhenTheDaemonStops() throws Exception {
+        try (Plant plant = Plant.start(folder, "harbour-hall-quiet-scenario.yaml", Optional.empty())) {
+            plant.stepper.steps(20);
+            assertThat(plant.stepper.coil).containsExactly("off", "on");
+            plant.daemon.close();
+            plant.stepper.sample();
+            assertThat(plant.stepper.coil).containsExactly("off", "on", "off");
+        }
+    }
+
+    /** The example site on the simulator, driven on one virtual clock, with notifiers when a webhook is given. */
+    private static final class Plant implements AutoCloseable {
+        final VirtualTimeSource clock;
+        final Simulator simulator;
+        final Daemon daemon;
+        final Stepper stepper;
+
+        private Plant(VirtualTimeSource clock, Simulator simulator, Daemon daemon, Stepper stepper) {
+            this.clock = clock;
+            this.simulator = simulator;
+            this.daemon = daemon;
+            this.stepper = stepper;
+        }
+
+        static Plant start(Path folder, String scenarioName, Optional<String> webhook) throws Exception {
+            Path examples = Files.createDirectories(folder.resolve("config-examples"));
+            for (String name : List.of(DemoFiles.SITE, DemoFiles.RULES)) {
+                Files.copy(Path.of("..", "config-examples", name), examples.resolve(name));
+            }
+            // The quench comes at 00:01 instead of 00:20, so the night reaches its alarm within seconds of real time.
+            String scenarioText = Files.readString(Path.of("..", "config-examples", scenarioName))
+                    .replace("{at: \"00:20\", do: quench", "{at: \"00:01\", do: quench");
+            Files.writeString(examples.resolve("night-scenario.yaml"), scenarioText);
+            if (webhook.isPresent()) {
+                Files.writeString(examples.resolve("night-roster.yaml"), ROSTER);
+                Files.writeString(examples.resolve("pager-hook-secret"), "harbour-hall-shared-secret\n");
+                Files.writeString(examples.resolve(DemoFiles.SITE), Files.readString(examples.resolve(DemoFiles.SITE))
+                        + "notifiers:\n  roster: night-roster.yaml\n  senders:\n"
+                        + "    - {id: pager-hook, kind: webhook, url: \"" + webhook.get() + "\","
+                        + " secret_file: pager-hook-secret, timeout: 2s}\n"
+                        + "    - {id: lab-mail, kind: email, host: 127.0.0.1, port: " + smtp.getSmtp().getPort()
+                        + ", security: none, from: cryowarden@harbour-hall.example, timeout: 5s}\n");
+            }
+            Scenario scenario = DemoNight.unpaced(ScenarioReader.read(examples.resolve("night-scenario.yaml")));
+            VirtualTimeSource clock = new VirtualTimeSource(scenario.start());
+            DriverCatalog catalog = DriverCatalog.discover(UnattendedNightTest.class.getClassLoader(),
+                    Optional.empty());
+            Path site = examples.resolve(DemoFiles.SITE);
+            List<Path> rules = List.of(examples.resolve(DemoFiles.RULES));
+            Simulator simulator = Simulator.create(scenario, clock, false);
+            try {
+                List<Endpoint> endpoints = simulator.startEmulators(new EmulatorOptions(
+                        InetAddress.getLoopbackAddress(), Optional.of(0), Optional.empty()));
+                Configuration configuration = DemoNight.pointAt(SiteSetup.load(site, rules, catalog, clock),
+                        endpoints);
+                NightSettings night = NightSettings.read(configuration, examples);
+                assertThat(night.notifiers().isPresent()).isEqualTo(webhook.isPresent());
+                Night.mosquittoRuns();
+                String id = java.util.UUID.randomUUID().toString();
+                DaemonSettings settings = DaemonSettings.read(configuration.site(), examples)
+                        .withBroker(Optional.of(Night.MOSQUITTO), 1883).withPrefix("cryowarden-test/" + id, "test-" + id)
+                        .withJournal(folder.resolve("journal.db")).withApi(Optional.empty(), Optional.empty());
+                RelayModule relay = (RelayModule) simulator.instrument("relay-1").orElseThrow();
+                Stepper stepper = new Stepper(simulator, relay, clock);
+                stepper.sample();
+                Daemon daemon = Daemon.start(site, rules, configuration, settings, night, catalog, clock,
+                        Daemon.Options.defaults().driven());
+                stepper.daemon = daemon;
+                return new Plant(clock, simulator, daemon, stepper);
+            } catch (Exception | AssertionError e) {
+                simulator.close();
+                throw e;
+            }
+        }
+
+        List<String> journalKinds() throws Exception {
+            return daemon.eventsAfter(0, 100_000).stream().map(e -> e.kind()).toList();
+        }
+
+        @Override
+        public void close() {
+            try {
+                daemon.close();
+            } finally {
+                simulator.close();
+            }
+        }
+    }
+
+    /** Steps simulator and daemon together and samples the relay module's common-alarm coil after each step. */
+    private static final class Stepper {
+        final Simulator simulator;
+        final RelayModule relay;
+        final VirtualTimeSource clock;
+        final List<String> coil = new ArrayList<>();
+        Daemon daemon;
+        Instant droppedAt;
+
+        Stepper(Simulator simulator, RelayModule relay, VirtualTimeSource clock) {
+            this.simulator = simulator;
+            this.relay = relay;
+            this.clock = clock;
+        }
+
+        void step() throws InterruptedException {
+            simulator.step();
+            daemon.step();
+            daemon.awaitQuiet(Duration.ofSeconds(5));
+            sample();
+        }
+
+        void steps(int count) throws InterruptedException {
+            for (int i = 0; i < count; i++) {
+                step();
+            }
+        }
+
+        void until(BooleanSupplier done, int maxSteps) throws InterruptedException {
+            for (int i = 0; i < maxSteps && !done.getAsBoolean(); i++) {
+                step();
+            }
+            assertThat(done.getAsBoolean()).as("condition within " + maxSteps + " steps").isTrue();
+        }
+
+        void sample() {
+            String state = relay.coilState(2) ? "on" : "off";
+            if (coil.isEmpty() || !coil.get(coil.size() - 1).equals(state)) {
+                if (state.equals("off") && !coil.isEmpty()) {
+                    droppedAt = clock.wallNow();
+                }
+                coil.add(state);
+            }
+        }
+    }
+
+    /** The webhook notices for {@code contact} of {@code kind}, in arrival order. */
+    private static List<JsonNode> calls(WebhookReceiver receiver, String contact, String kind) {
+        return receiver.calls().stream().map(c -> json(c.text()))
+                .filter(j -> j.path("contact").asText().equals(contact) && j.path("kind").asText().equals(kind))
+                .toList();
+    }
+
+    private static JsonNode json(String text) {
+        try {
+            return JSON.readTree(text);
+        } catch (java.io.IOException e) {
+            throw new AssertionError(e);
+        }
+    }
+}
