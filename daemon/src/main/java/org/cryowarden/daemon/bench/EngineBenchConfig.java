@@ -34,6 +34,18 @@ final class EngineBenchConfig {
     static final int VALUES_PER_CHANNEL = 240;
     static final Instant START = Instant.parse("2025-01-15T18:00:00Z");
 
+    /**
+     * One id string per channel for the configuration and the readings alike, as in the daemon, where a driver's
+     * readings carry the ids of the configuration the engine was built from.
+     */
+    private static final String[] IDS = new String[CHANNELS];
+
+    static {
+        for (int c = 0; c < CHANNELS; c++) {
+            IDS[c] = "ch" + c;
+        }
+    }
+
     private EngineBenchConfig() {
     }
 
@@ -89,7 +101,7 @@ final class EngineBenchConfig {
     }
 
     private static String id(int channel) {
-        return "ch" + channel;
+        return IDS[channel];
     }
 
     /** A virtual clock with no locking, so the figure measures the engine; advanced 1 ms per reading. */
