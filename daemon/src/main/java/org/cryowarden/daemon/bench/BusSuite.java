@@ -94,9 +94,8 @@ final class BusSuite {
                             rate, counts[0], counts[1], counts[2] / 1e9, share * 100, target * 100));
                     firstFailure.ifPresent(f -> lines.add("              first failure: " + f));
                 }
-                lines.add("  note: the simulator's emulator answers as soon as the request's length is complete (no t3.5"
-                        + " before its reply) and hands each reply character over at the start of its character time,"
-                        + " so it can beat a compliant line's maximum by up to t3.5 plus one character");
+                lines.add("  the simulator's emulator keeps t3.5 of silence after the request before it replies and hands"
+                        + " each character over only after its 11 bit times, as a compliant slave on the line");
                 return new BenchResult("bus", figures, reference, ratio,
                         ">= 90 % of the theoretical maximum at 9600 baud, >= 80 % at 115200", meets, lines);
             }

@@ -8,6 +8,7 @@ import java.util.Map;
 import java.util.concurrent.ArrayBlockingQueue;
 import org.cryowarden.rules.Reading;
 import org.cryowarden.rules.engine.Engine;
+import org.cryowarden.rules.engine.bench.EngineBenchLoad;
 
 /**
  * Readings per second through one engine on one thread against a bare loop that takes the same readings from the
@@ -18,13 +19,13 @@ final class EngineSuite {
 
     static final double TARGET_RATE = 1_000_000;
     static final double TARGET_SHARE = 0.25;
-    private static final int BATCH = EngineBenchConfig.CHANNELS;
+    private static final int BATCH = EngineBenchLoad.CHANNELS;
     private static final int SLICES = 4;
 
-    private final Reading[] readings = EngineBenchConfig.readings();
+    private final Reading[] readings = EngineBenchLoad.readings();
     private final ArrayBlockingQueue<Reading> queue = new ArrayBlockingQueue<>(BATCH);
-    private final EngineBenchConfig.Clock clock = new EngineBenchConfig.Clock();
-    private final Engine engine = new Engine(EngineBenchConfig.config(), clock);
+    private final EngineBenchLoad.Clock clock = new EngineBenchLoad.Clock();
+    private final Engine engine = new Engine(EngineBenchLoad.config(), clock);
     private int next;
     /** The bare loop's only work, kept in a field so the JIT cannot drop the loop. */
     private double bareSink;
@@ -32,8 +33,8 @@ final class EngineSuite {
 
     BenchResult run(BenchSettings settings) {
         Duration measure = settings.measure(Duration.ofSeconds(20));
-        settings.say("engine: warming up (" + EngineBenchConfig.CHANNELS + " channels, "
-                + EngineBenchConfig.ruleCount() + " rules, one thread)");
+        settings.say("engine: warming up (" + EngineBenchLoad.CHANNELS + " channels, "
+                + EngineBenchLoad.ruleCount() + " rules, one thread)");
         // Fill every rate window and settle the alarms once, then warm both loops.
         for (int i = 0; i < readings.length / BATCH; i++) {
             batch(true);
@@ -58,7 +59,7 @@ final class EngineSuite {
         double share = engineRate / bareRate;
         boolean meets = engineRate >= TARGET_RATE && share >= TARGET_SHARE;
         List<String> lines = new ArrayList<>();
-        lines.add("engine: " + EngineBenchConfig.CHANNELS + " channels, " + EngineBenchConfig.ruleCount()
+        lines.add("engine: " + EngineBenchLoad.CHANNELS + " channels, " + EngineBenchLoad.ruleCount()
                 + " rules (limit, stale, rate, 2oo3 vote, deviation), one thread, " + SLICES
                 + " alternating slices per loop");
         lines.add(String.format(Locale.ROOT, "  engine loop: %,.0f readings/s (%,d readings in %.2f s, %,d events)",

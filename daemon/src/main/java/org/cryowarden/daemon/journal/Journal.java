@@ -238,6 +238,21 @@ public final class Journal implements AutoCloseable {
                 at.toEpochMilli(), at.toEpochMilli(), outboxId));
     }
 
+    /** Marks several outbox entries delivered in one transaction (one commit for a window of PUBACKs). */
+    public void markDelivered(List<Long> outboxIds, Instant at) throws JournalException {
+        if (outboxIds.isEmpty()) {
+            return;
+        }
+        write("delivery of outbox entries " + outboxIds.get(0) + " to " + outboxIds.get(outboxIds.size() - 1),
+                tx -> {
+                    for (long id : outboxIds) {
+                        update("UPDATE outbox SET delivered_ms = ?, attempts = attempts + 1, last_attempt_ms = ?"
+                                + " WHERE id = ?", at.toEpochMilli(), at.toEpochMilli(), id);
+                    }
+                    return null;
+                });
+    }
+
     /** Counts a failed delivery attempt of an outbox entry. */
     public void recordAttempt(long outboxId, Instant at) throws JournalException {
         write("a delivery attempt of outbox entry " + outboxId, tx -> update(

@@ -14,14 +14,17 @@ import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 
 /**
- * The journal thread: numbers and records each batch of events in one transaction (events, the alarm and
- * interlock states they changed, and an outbox entry per event for the event topic), then tells the listeners,
- * so nothing is published before it is recorded. The queue holds {@value #CAPACITY} batches; events are never
+ * The journal thread: numbers and records the queued batches of events in one transaction (events, the alarm
+ * and interlock states they changed, and an outbox entry per event for the event topic), then tells the
+ * listeners, so nothing is published before it is recorded. Batches that queued up while the previous commit
+ * was syncing share the next one, so a burst costs a few syncs to disk, not one per batch. The queue holds {@value #CAPACITY} batches; events are never
  * dropped, so a full queue makes the engine wait (counted), which only a stalled disk can cause.
  */
 final class JournalSink implements AutoCloseable {
 
     static final int CAPACITY = 10_000;
+    /** At most this many queued batches share one commit. */
+    static final int GROUP = 256;
 
     private static final Logger LOG = LoggerFactory.getLogger(JournalSink.class);
     private static final Logger EVENTS = LoggerFactory.getLogger("org.cryowarden.event");
@@ -113,6 +116,7 @@ final class JournalSink implements AutoCloseable {
     }
 
     private void loop() {
+        List<EventBatch> group = new ArrayList<>();
         while (running) {
             EventBatch batch;
             try {
@@ -123,8 +127,12 @@ final class JournalSink implements AutoCloseable {
             if (batch != null) {
                 busy = true;
                 try {
-                    record(batch);
+                    // Whatever queued up meanwhile shares the commit: one sync to disk for the group, not per batch.
+                    group.add(batch);
+                    queue.drainTo(group, GROUP - 1);
+                    record(group);
                 } finally {
+                    group.clear();
                     busy = false;
                 }
             }
@@ -132,46 +140,74 @@ final class JournalSink implements AutoCloseable {
     }
 
     private void record(EventBatch batch) {
-        List<OptionalLong> seqs = new ArrayList<>();
-        if (!batch.events().isEmpty() || !batch.states().isEmpty()) {
+        record(List.of(batch));
+    }
+
+    /**
+     * Records the batches in one transaction, then tells the listeners batch by batch, in order: nothing is
+     * published before it is recorded.
+     */
+    private void record(List<EventBatch> batches) {
+        List<List<OptionalLong>> seqs = new ArrayList<>(batches.size());
+        for (int b = 0; b < batches.size(); b++) {
+            seqs.add(new ArrayList<>());
+        }
+        int events = 0;
+        boolean anything = false;
+        for (EventBatch batch : batches) {
+            events += batch.events().size();
+            anything |= !batch.events().isEmpty() || !batch.states().isEmpty();
+        }
+        if (anything) {
             try {
-                List<Long> numbers = journal.write(batch.events().size() + " events", tx -> {
-                    List<Long> result = new ArrayList<>();
-                    long last = -1;
-                    for (DaemonEvent event : batch.events()) {
-                        long seq = tx.appendEvent(event.toJournal());
-                        tx.enqueue("mqtt", eventTopic, Payloads.text(event.published(seq)), OptionalLong.of(seq),
-                                event.at());
-                        result.add(seq);
-                        last = seq;
-                    }
-                    if (last >= 0) {
-                        for (Map.Entry<String, String> state : batch.states().entrySet()) {
-                            tx.putAlarmState(state.getKey(), state.getValue(), last,
-                                    batch.events().get(batch.events().size() - 1).at());
+                List<List<Long>> numbers = journal.write(events + " events", tx -> {
+                    List<List<Long>> result = new ArrayList<>(batches.size());
+                    for (EventBatch batch : batches) {
+                        List<Long> numbered = new ArrayList<>(batch.events().size());
+                        long last = -1;
+                        for (DaemonEvent event : batch.events()) {
+                            long seq = tx.appendEvent(event.toJournal());
+                            tx.enqueue("mqtt", eventTopic, Payloads.text(event.published(seq)), OptionalLong.of(seq),
+                                    event.at());
+                            numbered.add(seq);
+                            last = seq;
                         }
+                        if (last >= 0) {
+                            for (Map.Entry<String, String> state : batch.states().entrySet()) {
+                                tx.putAlarmState(state.getKey(), state.getValue(), last,
+                                        batch.events().get(batch.events().size() - 1).at());
+                            }
+                        }
+                        result.add(numbered);
                     }
                     return result;
                 });
-                for (int i = 0; i < numbers.size(); i++) {
-                    seqs.add(OptionalLong.of(numbers.get(i)));
-                    EVENTS.info(batch.events().get(i).logLine(numbers.get(i)));
+                for (int b = 0; b < batches.size(); b++) {
+                    List<Long> numbered = numbers.get(b);
+                    for (int i = 0; i < numbered.size(); i++) {
+                        seqs.get(b).add(OptionalLong.of(numbered.get(i)));
+                        EVENTS.info(batches.get(b).events().get(i).logLine(numbered.get(i)));
+                    }
                 }
             } catch (JournalException e) {
                 failures.incrementAndGet();
                 LOG.error("{}", e.getMessage());
-                for (DaemonEvent event : batch.events()) {
-                    seqs.add(OptionalLong.empty());
-                    EVENTS.warn("NOT RECORDED " + event.logLine(0));
+                for (int b = 0; b < batches.size(); b++) {
+                    for (DaemonEvent event : batches.get(b).events()) {
+                        seqs.get(b).add(OptionalLong.empty());
+                        EVENTS.warn("NOT RECORDED " + event.logLine(0));
+                    }
                 }
             }
         }
-        Committed committed = new Committed(batch, seqs);
-        for (Listener listener : listeners) {
-            try {
-                listener.committed(committed);
-            } catch (RuntimeException e) {
-                LOG.error("journal listener failed", e);
+        for (int b = 0; b < batches.size(); b++) {
+            Committed committed = new Committed(batches.get(b), seqs.get(b));
+            for (Listener listener : listeners) {
+                try {
+                    listener.committed(committed);
+                } catch (RuntimeException e) {
+                    LOG.error("journal listener failed", e);
+                }
             }
         }
     }

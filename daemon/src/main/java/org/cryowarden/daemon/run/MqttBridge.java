@@ -36,8 +36,9 @@ import org.slf4j.LoggerFactory;
  *       reading thread, which also feeds the journal's minute aggregates;</li>
  *   <li>{@code alarm/<alarm>} retained QoS 1 and {@code summary} retained QoS 1, published once the journal
  *       recorded the change;</li>
- *   <li>{@code event} QoS 1 from the journal's outbox, one at a time in sequence order, each marked delivered
- *       after its PUBACK, so a broker outage delays events but never loses or reorders them;</li>
+ *   <li>{@code event} QoS 1 from the journal's outbox in sequence order, a window of them in flight on the one
+ *       connection, each marked delivered after its PUBACK, so a broker outage delays events but never loses or
+ *       reorders them;</li>
  *   <li>{@code command/<verb>} requests, answered on their MQTT 5 Response Topic with the Correlation Data.</li>
  * </ul>
  * After every (re)connect the current readings, alarms and summary are published again.
@@ -48,6 +49,8 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
 
     private static final Logger LOG = LoggerFactory.getLogger(MqttBridge.class);
     private static final Duration PUBLISH_TIMEOUT = Duration.ofSeconds(30);
+    /** Events from the outbox in flight at once: within the link's default window of 32. */
+    private static final int OUTBOX_WINDOW = 32;
 
     private final MqttLink link;
     private final String prefix;
@@ -314,32 +317,48 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
         }
     }
 
-    /** Sends undelivered events oldest first, each after the previous one's PUBACK; stops at the first failure. */
+    /**
+     * Sends undelivered events oldest first, up to {@value #OUTBOX_WINDOW} at a time: the link keeps them in order
+     * on its one connection (MQTT keeps the order of QoS 1 messages on a connection), so waiting for each PUBACK
+     * before the next publish would only add a round trip per event. Marks the acknowledged run in one transaction
+     * and stops at the first failure; what follows it is sent again, in order, after the next connect.
+     */
     private void sendOutbox() throws JournalException {
         while (running && link.isConnected()) {
-            List<OutboxEntry> entries = journal.undelivered(OUTBOX_SINK, 256);
+            List<OutboxEntry> entries = journal.undelivered(OUTBOX_SINK, OUTBOX_WINDOW);
             if (entries.isEmpty()) {
                 outboxDepth = 0;
                 return;
             }
+            List<CompletableFuture<PublishResult>> sent = new ArrayList<>(entries.size());
             for (OutboxEntry entry : entries) {
+                sent.add(link.publish(OutgoingMessage.atLeastOnce(entry.target(), entry.payload(), false)));
+            }
+            List<Long> delivered = new ArrayList<>(entries.size());
+            OutboxEntry failed = null;
+            for (int i = 0; i < entries.size() && failed == null; i++) {
                 PublishResult result;
                 try {
-                    result = link.publish(OutgoingMessage.atLeastOnce(entry.target(), entry.payload(), false))
-                            .get(PUBLISH_TIMEOUT.toMillis(), TimeUnit.MILLISECONDS);
+                    result = sent.get(i).get(PUBLISH_TIMEOUT.toMillis(), TimeUnit.MILLISECONDS);
                 } catch (InterruptedException e) {
                     Thread.currentThread().interrupt();
+                    journal.markDelivered(delivered, time.wallNow());
                     return;
                 } catch (ExecutionException | TimeoutException e) {
                     result = new PublishResult.Failed(e.toString());
                 }
-                if (!result.isDelivered()) {
-                    journal.recordAttempt(entry.id(), time.wallNow());
-                    outboxDepth = journal.outboxDepth(OUTBOX_SINK);
-                    return;
+                if (result.isDelivered()) {
+                    delivered.add(entries.get(i).id());
+                } else {
+                    failed = entries.get(i);
                 }
-                journal.markDelivered(entry.id(), time.wallNow());
-                eventsPublished.incrementAndGet();
+            }
+            journal.markDelivered(delivered, time.wallNow());
+            eventsPublished.addAndGet(delivered.size());
+            if (failed != null) {
+                journal.recordAttempt(failed.id(), time.wallNow());
+                outboxDepth = journal.outboxDepth(OUTBOX_SINK);
+                return;
             }
             outboxDepth = journal.outboxDepth(OUTBOX_SINK);
         }

@@ -6,6 +6,7 @@ import java.util.ArrayList;
 import java.util.List;
 import java.util.Map;
 import java.util.Optional;
+import java.util.function.Consumer;
 import java.util.OptionalDouble;
 import org.cryowarden.drivers.analog.CurrentLoop;
 import org.cryowarden.drivers.modbus.ModbusClient;
@@ -64,17 +65,22 @@ final class ModbusRtuInstrument implements InstrumentDriver {
     @Override
     public List<Reading> poll(List<String> channels, Transport transport) throws IOException {
         List<Reading> readings = new ArrayList<>(channels.size());
+        poll(channels, transport, readings::add);
+        return readings;
+    }
+
+    @Override
+    public void poll(List<String> channels, Transport transport, Consumer<Reading> each) throws IOException {
         for (String channel : channels) {
             ModbusPoint point = config.points().get(channel);
             Unit unit = context.unitOf(channel);
             if (point == null || point.output()) {
-                readings.add(Reading.bad(channel, unit, context.time().wallNow(), "instrument '" + id
+                each.accept(Reading.bad(channel, unit, context.time().wallNow(), "instrument '" + id
                         + "' has no input point for channel '" + channel + "'"));
                 continue;
             }
-            readings.add(read(point, unit, transport));
+            each.accept(read(point, unit, transport));
         }
-        return readings;
     }
 
     private Reading read(ModbusPoint point, Unit unit, Transport transport) throws IOException {

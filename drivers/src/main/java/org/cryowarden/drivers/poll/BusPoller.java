@@ -3,11 +3,12 @@ package org.cryowarden.drivers.poll;
 import java.io.IOException;
 import java.time.Duration;
 import java.util.ArrayList;
-import java.util.LinkedHashMap;
+import java.util.HashSet;
 import java.util.List;
 import java.util.Map;
 import java.util.Objects;
 import java.util.Optional;
+import java.util.Set;
 import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.ConcurrentHashMap;
 import java.util.concurrent.ConcurrentLinkedQueue;
@@ -294,40 +295,42 @@ public final class BusPoller implements AutoCloseable {
         for (Slot slot : due) {
             ids.add(slot.channel.id());
         }
-        List<Reading> readings;
+        // Each reading goes on as soon as the driver decoded it; one the driver repeats or did not ask for is
+        // dropped, one it never gave is BAD below, and on a failure only those not yet delivered are marked.
+        Set<String> delivered = new HashSet<>();
         try {
-            readings = driver.poll(ids, transport);
+            driver.poll(ids, transport, reading -> {
+                if (reading != null && ids.contains(reading.channel()) && delivered.add(reading.channel())) {
+                    deliver(reading);
+                }
+            });
         } catch (IOException e) {
             transportFailed(e, now);
             for (Slot slot : due) {
-                deliver(Reading.stale(slot.channel.id(), slot.channel.unit(), time.wallNow(), "bus '" + busId
-                        + "' down: " + downReason));
+                if (!delivered.contains(slot.channel.id())) {
+                    deliver(Reading.stale(slot.channel.id(), slot.channel.unit(), time.wallNow(), "bus '" + busId
+                            + "' down: " + downReason));
+                }
             }
             return;
         } catch (RuntimeException e) {
             counters.increment("driver_errors");
             LOG.error("bus '{}': driver of '{}' failed a poll", busId, driver.instrumentId(), e);
             for (Slot slot : due) {
-                deliver(Reading.bad(slot.channel.id(), slot.channel.unit(), time.wallNow(), "driver of instrument '"
-                        + driver.instrumentId() + "' failed: " + e));
+                if (!delivered.contains(slot.channel.id())) {
+                    deliver(Reading.bad(slot.channel.id(), slot.channel.unit(), time.wallNow(),
+                            "driver of instrument '" + driver.instrumentId() + "' failed: " + e));
+                }
             }
             return;
         }
         failedReopens = 0;
-        Map<String, Reading> byChannel = new LinkedHashMap<>();
-        for (Reading reading : readings == null ? List.<Reading>of() : readings) {
-            if (reading != null && ids.contains(reading.channel())) {
-                byChannel.putIfAbsent(reading.channel(), reading);
-            }
-        }
         for (Slot slot : due) {
-            Reading reading = byChannel.get(slot.channel.id());
-            if (reading == null) {
+            if (!delivered.contains(slot.channel.id())) {
                 counters.increment("missing_readings");
-                reading = Reading.bad(slot.channel.id(), slot.channel.unit(), time.wallNow(), "driver of instrument '"
-                        + driver.instrumentId() + "' returned no reading");
+                deliver(Reading.bad(slot.channel.id(), slot.channel.unit(), time.wallNow(), "driver of instrument '"
+                        + driver.instrumentId() + "' returned no reading"));
             }
-            deliver(reading);
         }
     }
 

@@ -4,6 +4,7 @@ import java.io.IOException;
 import java.util.List;
 import java.util.Map;
 import java.util.Optional;
+import java.util.function.Consumer;
 import org.cryowarden.rules.Reading;
 
 /**
@@ -30,6 +31,17 @@ public interface InstrumentDriver {
      * stamped with the context's wall clock.
      */
     List<Reading> poll(List<String> channels, Transport transport) throws IOException;
+
+    /**
+     * Like {@link #poll(List, Transport)}, but hands each reading to {@code each} as soon as it is decoded, so a
+     * reading that crosses a limit does not wait for the rest of the instrument's round. A driver that reads a
+     * request per channel overrides this; by default all are read, then handed over.
+     */
+    default void poll(List<String> channels, Transport transport, Consumer<Reading> each) throws IOException {
+        for (Reading reading : poll(channels, transport)) {
+            each.accept(reading);
+        }
+    }
 
     /**
      * Drives an output (an interlock action or an operator command) and, where the device allows, reads it back.

@@ -171,6 +171,30 @@ class BusPollerTest {
                 .isEqualTo("no instrument on bus 'cryostat-hall' drives output 'no-such-output'");
     }
 
+    @Test
+    void readingDecodedBeforeATransportFailureArrivesAtOnceAndOnlyTheRestTurnStale() {
+        int[] deliveredBeforeFailure = new int[1];
+        InstrumentDriver halfRound = new FakeDriver() {
+            @Override
+            public void poll(List<String> channels, Transport transport, java.util.function.Consumer<Reading> each)
+                    throws IOException {
+                each.accept(Reading.good(channels.get(0), 42.5, Unit.PERCENT, time.wallNow()));
+                deliveredBeforeFailure[0] = readings.size();
+                throw new IOException("read error 5");
+            }
+        };
+        BusPoller poller = new BusPoller("b", transport, List.of(new PolledInstrument(halfRound,
+                List.of(fast, slow), List.of())), time, readings::add, Backoff.DEFAULT);
+
+        poller.runDue();
+
+        assertThat(deliveredBeforeFailure[0]).isEqualTo(1);
+        assertThat(readings).extracting(Reading::channel, Reading::quality).containsExactly(
+                org.assertj.core.groups.Tuple.tuple("he-level", Quality.GOOD),
+                org.assertj.core.groups.Tuple.tuple("bath-pressure", Quality.STALE));
+        assertThat(readings.get(1).reason()).isEqualTo("bus 'b' down: read error 5");
+    }
+
     private BusPoller modbusPoller() {
         return new BusPoller("cryostat-hall", transport, List.of(modbusInstrument()), time, readings::add,
                 Backoff.DEFAULT);

@@ -27,8 +27,12 @@ final class RateEvaluator extends RuleEvaluator {
     private final String rateUnit;
     private final String thresholdText;
 
-    private long[] times = new long[16];
-    private double[] values = new double[16];
+    /**
+     * The window's points, time and value side by side (value as raw double bits), so that taking the oldest point
+     * and adding the newest each touch one place in memory; a ring of {@code capacity} points.
+     */
+    private long[] points = new long[32];
+    private int capacity = 16;
     private int head;
     private int size;
     private long base;
@@ -61,7 +65,7 @@ final class RateEvaluator extends RuleEvaluator {
         long now = core.now;
         evictBefore(now - windowNanos);
         add(now, reading.value());
-        if (size < MINIMUM_POINTS || times[index(size - 1)] - times[head] < windowNanos / 2) {
+        if (size < MINIMUM_POINTS || time(index(size - 1)) - time(head) < windowNanos / 2) {
             return;
         }
         double n = size;
@@ -76,23 +80,23 @@ final class RateEvaluator extends RuleEvaluator {
     }
 
     private void add(long time, double value) {
-        if (size == times.length) {
-            long[] grownTimes = new long[times.length * 2];
-            double[] grownValues = new double[values.length * 2];
+        if (size == capacity) {
+            long[] grown = new long[capacity * 4];
             for (int i = 0; i < size; i++) {
-                grownTimes[i] = times[index(i)];
-                grownValues[i] = values[index(i)];
+                int slot = index(i);
+                grown[2 * i] = points[2 * slot];
+                grown[2 * i + 1] = points[2 * slot + 1];
             }
-            times = grownTimes;
-            values = grownValues;
+            points = grown;
+            capacity *= 2;
             head = 0;
         }
         if (size == 0) {
             base = time;
         }
         int slot = index(size);
-        times[slot] = time;
-        values[slot] = value;
+        points[2 * slot] = time;
+        points[2 * slot + 1] = Double.doubleToRawLongBits(value);
         size++;
         double x = (time - base) * 1e-9;
         sumX += x;
@@ -102,14 +106,14 @@ final class RateEvaluator extends RuleEvaluator {
     }
 
     private void evictBefore(long cutoff) {
-        while (size > 0 && times[head] - cutoff < 0) {
-            double x = (times[head] - base) * 1e-9;
-            double value = values[head];
+        while (size > 0 && time(head) - cutoff < 0) {
+            double x = (time(head) - base) * 1e-9;
+            double value = value(head);
             sumX -= x;
             sumY -= value;
             sumXX -= x * x;
             sumXY -= x * value;
-            head = (head + 1) & (times.length - 1);
+            head = (head + 1) & (capacity - 1);
             size--;
             evictionsSinceRecompute++;
         }
@@ -127,18 +131,27 @@ final class RateEvaluator extends RuleEvaluator {
         if (size == 0) {
             return;
         }
-        base = times[head];
+        base = time(head);
         for (int i = 0; i < size; i++) {
             int slot = index(i);
-            double x = (times[slot] - base) * 1e-9;
+            double x = (time(slot) - base) * 1e-9;
+            double value = value(slot);
             sumX += x;
-            sumY += values[slot];
+            sumY += value;
             sumXX += x * x;
-            sumXY += x * values[slot];
+            sumXY += x * value;
         }
     }
 
     private int index(int offset) {
-        return (head + offset) & (times.length - 1);
+        return (head + offset) & (capacity - 1);
+    }
+
+    private long time(int slot) {
+        return points[2 * slot];
+    }
+
+    private double value(int slot) {
+        return Double.longBitsToDouble(points[2 * slot + 1]);
     }
 }

@@ -2,13 +2,15 @@ package org.cryowarden.rules.engine;
 
 /**
  * Something that expires on the engine's monotonic clock: an on/off-delay, a stale timeout, a shelving or a bypass.
- * Re-scheduling or cancelling bumps the generation, so older queue entries are ignored when they come due.
+ * A timer is in its queue at most once: re-scheduling moves it, cancelling takes it out.
  */
 abstract class Timer {
 
-    int generation;
+    /** Where it sits in {@link TimerQueue}'s heap, or -1 when not queued. */
+    int slot = -1;
+    /** Whether it is queued. */
     boolean queued;
 
-    /** Called by {@link TimerQueue#runDue(long)} when this timer's current entry comes due. */
+    /** Called by {@link TimerQueue#runDue(long)} when this timer comes due. */
     abstract void expire();
 }

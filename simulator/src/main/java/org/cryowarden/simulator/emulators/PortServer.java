@@ -256,7 +256,9 @@ public final class PortServer implements AutoCloseable {
 
         Connection(Socket socket) throws IOException {
             this.socket = socket;
-            this.link = new SocketLink(socket, spec.baud(), spec.bitsPerByte(), spec.pace());
+            this.link = new SocketLink(socket, spec.baud(), spec.bitsPerByte(), spec.pace(),
+                    protocol == Protocol.MODBUS_RTU && spec.baud() > 0
+                            ? RtuTiming.forBaud(spec.baud()).interFrame() : Duration.ZERO);
         }
 
         void start() {

@@ -12,8 +12,9 @@ import org.cryowarden.drivers.spi.Transport;
 
 /**
  * The instrument's end of one TCP connection, as a drivers {@link Transport} so the drivers' RTU frame reader can
- * cut requests out of it. Writes can be paced at a line speed: one character every {@code bits / baud} seconds,
- * so a master sees the timing of a real serial line.
+ * cut requests out of it. Writes can be paced at a line speed, so a master sees the timing of a real serial line:
+ * a character is handed over only once its {@code bits} bits have taken their time at the baud rate, and a reply
+ * starts no sooner than the turnaround silence (t3.5 for Modbus RTU) after the last character received.
  */
 final class SocketLink implements Transport {
 
@@ -21,13 +22,21 @@ final class SocketLink implements Transport {
     private final InputStream in;
     private final OutputStream out;
     private final long nanosPerByte;
+    private final long turnaroundNanos;
+    /** When the last character came in, for the turnaround silence; MIN_VALUE before any. */
+    private long lastReceived = Long.MIN_VALUE;
 
-    SocketLink(Socket socket, int baud, int bitsPerByte, boolean pace) throws IOException {
+    /**
+     * @param turnaround the silence kept after the last received character before replying, when paced (t3.5 for
+     *                   Modbus RTU: a slave knows a request has ended only after it; zero for line protocols)
+     */
+    SocketLink(Socket socket, int baud, int bitsPerByte, boolean pace, Duration turnaround) throws IOException {
         this.socket = socket;
         socket.setTcpNoDelay(true);
         this.in = socket.getInputStream();
         this.out = socket.getOutputStream();
         this.nanosPerByte = pace && baud > 0 ? bitsPerByte * 1_000_000_000L / baud : 0;
+        this.turnaroundNanos = nanosPerByte == 0 ? 0 : turnaround.toNanos();
     }
 
     @Override
@@ -43,14 +52,22 @@ final class SocketLink implements Transport {
             return;
         }
         long due = System.nanoTime();
+        if (lastReceived != Long.MIN_VALUE && lastReceived + turnaroundNanos - due > 0) {
+            due = lastReceived + turnaroundNanos;
+        }
         for (byte b : bytes) {
+            // A character has arrived only once its last bit is on the line: wait out its time, then hand it over.
+            due += nanosPerByte;
+            waitUntil(due);
             out.write(b);
             out.flush();
-            due += nanosPerByte;
-            long wait;
-            while ((wait = due - System.nanoTime()) > 0) {
-                LockSupport.parkNanos(wait);
-            }
+        }
+    }
+
+    private static void waitUntil(long due) {
+        long wait;
+        while ((wait = due - System.nanoTime()) > 0) {
+            LockSupport.parkNanos(wait);
         }
     }
 
@@ -61,6 +78,9 @@ final class SocketLink implements Transport {
             int count = in.read(buffer, offset, length);
             if (count < 0) {
                 throw new IOException("peer closed the connection");
+            }
+            if (count > 0) {
+                lastReceived = System.nanoTime();
             }
             return count;
         } catch (SocketTimeoutException e) {

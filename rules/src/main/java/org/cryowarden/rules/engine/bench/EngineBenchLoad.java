@@ -1,4 +1,4 @@
-package org.cryowarden.daemon.bench;
+package org.cryowarden.rules.engine.bench;
 
 import java.time.Duration;
 import java.time.Instant;
@@ -24,20 +24,33 @@ import org.cryowarden.rules.model.StaleRule;
 import org.cryowarden.rules.model.VoteRule;
 
 /**
- * The engine suite's load, the same as the engine's JMH benchmark: 1,000 channels and 5,000 rules (2,000 limits,
+ * The engine benchmark's load, one source for the {@code bench engine} suite and the JMH benchmark (in this
+ * module's tests): 1,000 channels and 5,000 rules (2,000 limits,
  * 1,000 stale, 1,000 rate, 500 2oo3 votes, 500 deviations), each channel read once per simulated second with
  * values that swing across the limits for a few seconds of each 4-minute swing, so alarms really transition.
  */
-final class EngineBenchConfig {
+public final class EngineBenchLoad {
 
-    static final int CHANNELS = 1_000;
-    static final int VALUES_PER_CHANNEL = 240;
-    static final Instant START = Instant.parse("2025-01-15T18:00:00Z");
+    public static final int CHANNELS = 1_000;
+    public static final int VALUES_PER_CHANNEL = 240;
+    public static final Instant START = Instant.parse("2025-01-15T18:00:00Z");
 
-    private EngineBenchConfig() {
+    /**
+     * One id string per channel for the configuration and the readings alike, as in the daemon, where a driver's
+     * readings carry the ids of the configuration the engine was built from.
+     */
+    private static final String[] IDS = new String[CHANNELS];
+
+    static {
+        for (int c = 0; c < CHANNELS; c++) {
+            IDS[c] = "ch" + c;
+        }
     }
 
-    static EngineConfig config() {
+    private EngineBenchLoad() {
+    }
+
+    public static EngineConfig config() {
         List<ChannelDef> channels = new ArrayList<>();
         List<RuleDef> rules = new ArrayList<>();
         for (int c = 0; c < CHANNELS; c++) {
@@ -65,7 +78,7 @@ final class EngineBenchConfig {
     }
 
     /** Every channel 240 times, channel after channel (the clock moves 1 ms per reading as the engine takes it). */
-    static Reading[] readings() {
+    public static Reading[] readings() {
         Reading[] readings = new Reading[CHANNELS * VALUES_PER_CHANNEL];
         int slot = 0;
         for (int k = 0; k < VALUES_PER_CHANNEL; k++) {
@@ -78,7 +91,7 @@ final class EngineBenchConfig {
     }
 
     /** 5 rules per channel: high and low limit, stale, rate, and a 2oo3 vote or a deviation. */
-    static int ruleCount() {
+    public static int ruleCount() {
         return 5 * CHANNELS;
     }
 
@@ -89,17 +102,17 @@ final class EngineBenchConfig {
     }
 
     private static String id(int channel) {
-        return "ch" + channel;
+        return IDS[channel];
     }
 
     /** A virtual clock with no locking, so the figure measures the engine; advanced 1 ms per reading. */
-    static final class Clock implements TimeSource {
+    public static final class Clock implements TimeSource {
 
         private long nanos;
         private Instant wall = START;
         private long wallSecond;
 
-        void advanceMillis(long millis) {
+        public void advanceMillis(long millis) {
             nanos += millis * 1_000_000L;
         }
 
