@@ -390,7 +390,7 @@ final class BlockDecoder {
         return readings;
     }
 
-    private static long deltaOfDelta(BitReader in) throws BitReader.EndOfBits {
+    static long deltaOfDelta(BitReader in) throws BitReader.EndOfBits {
         return switch (unary(in)) {
             case 0 -> 0;
             case 1 -> signed(in.read(7), 7);

@@ -27,7 +27,8 @@ import org.cryowarden.rules.Unit;
  * (NaN with its payload, infinities, -0.0, noise) escape to their raw 64 bits. Quality and reason are stored as
  * runs, so a night of GOOD readings costs a few bytes.
  *
- * <p>The value coding is chosen by trying XOR and the coarsest decimal and binary lattice on the block's first
+ * <p>Like version 1, the encoder holds only the bit streams (and the first values until a coding is chosen): what
+ * it re-encodes, it reads back from them. The value coding is chosen by trying XOR and the coarsest decimal and binary lattice on the block's first
  * {@value #CHOOSE_AFTER} values (or at the first snapshot), chosen again when escapes pile up, and once more on
  * every value when the block is sealed, so a sealed block is in the cheapest of the three. Timestamps move to a
  * finer step when an interval needs it (at most three times). Every choice is made from the block's own values, so
@@ -48,8 +49,10 @@ public final class BlockEncoder {
 
     private TimeResolution resolution = TimeResolution.SECOND;
     private BitWriter times = new BitWriter(256);
-    private long[] nanos = new long[64];
-    private double[] values = new double[64];
+    private long firstNanos;
+    private long prevNanos;
+    /** The values before a coding is chosen; afterwards the value stream is the only copy. */
+    private final double[] early = new double[CHOOSE_AFTER];
     private int count;
     private long prevDelta;
     private ValueWriter writer;
@@ -95,12 +98,12 @@ public final class BlockEncoder {
 
     /** The timestamp of the first reading of the block; only when it is not empty. */
     Instant firstInstant() {
-        return instant(nanos[0]);
+        return instant(firstNanos);
     }
 
     /** The timestamp of the last reading appended, if any. */
     public Optional<Instant> last() {
-        return count == 0 ? Optional.empty() : Optional.of(instant(nanos[count - 1]));
+        return count == 0 ? Optional.empty() : Optional.of(instant(prevNanos));
     }
 
     /** The value coding in use; XOR until one is chosen. */
@@ -124,26 +127,25 @@ public final class BlockEncoder {
                     + " but its history block is in " + unit.symbol());
         }
         long at = nanos(reading.timestamp(), channel);
-        if (count > 0 && at < nanos[count - 1]) {
+        if (count > 0 && at < prevNanos) {
             throw new IllegalArgumentException("reading of " + channel + " at " + reading.timestamp()
-                    + " is earlier than the previous one at " + instant(nanos[count - 1])
+                    + " is earlier than the previous one at " + instant(prevNanos)
                     + ": a history block takes readings in time order");
         }
-        if (count == nanos.length) {
-            nanos = Arrays.copyOf(nanos, count * 2);
-            values = Arrays.copyOf(values, count * 2);
-        }
         if (count > 0) {
-            TimeResolution needed = TimeResolution.fitting(at - nanos[count - 1], resolution);
+            TimeResolution needed = TimeResolution.fitting(at - prevNanos, resolution);
             if (needed != resolution) {
-                resolution = needed;
-                rewriteTimes();
+                rewriteTimes(needed);
             }
-            writeTime(count, at);
+            writeTime(at);
+        } else {
+            firstNanos = at;
         }
-        nanos[count] = at;
+        prevNanos = at;
         double value = reading.value();
-        values[count] = value;
+        if (writer == null) {
+            early[count] = value;
+        }
         count++;
         if (writer != null) {
             writer.write(value);
@@ -168,16 +170,16 @@ public final class BlockEncoder {
         if (writer == null) {
             choose();
         }
-        return new HistoryBlock(label(), channel, unit, instant(nanos[0]), instant(nanos[count - 1]), count,
-                serialize());
+        return new HistoryBlock(label(), channel, unit, instant(firstNanos), instant(prevNanos), count, serialize());
     }
 
     /** The block so far, in the cheapest coding for all its values, after which the encoder starts afresh. */
     public HistoryBlock seal() {
         if (count > 0 && writer != null && !xorOnly) {
+            double[] values = values();
             ValueCoding best = ValueCoding.cheapest(values, count);
             if (!best.equals(writer.coding()) && ValueCoding.cost(best, values, count) < valueBits.bitLength()) {
-                encodeValues(best);
+                encodeValues(best, values);
             }
         }
         HistoryBlock block = snapshot();
@@ -193,16 +195,35 @@ public final class BlockEncoder {
     }
 
     private String label() {
-        return channel + " from " + instant(nanos[0]);
+        return channel + " from " + instant(firstNanos);
     }
 
     private void choose() {
         choices++;
-        encodeValues(xorOnly ? ValueCoding.XOR : ValueCoding.cheapest(values, count));
+        double[] values = values();
+        encodeValues(xorOnly ? ValueCoding.XOR : ValueCoding.cheapest(values, count), values);
         chooseAgainAt = Math.max(ESCAPES_BEFORE_CHOOSING_AGAIN, 2 * writer.escapes());
     }
 
-    private void encodeValues(ValueCoding coding) {
+    /** Every value so far, read back from the value stream (the encoder keeps no other copy once it has one). */
+    private double[] values() {
+        if (writer == null) {
+            return Arrays.copyOf(early, count);
+        }
+        double[] values = new double[count];
+        ValueReader reader = new ValueReader(writer.coding(),
+                new BitReader(valueBits.toByteArray(), 0, valueBits.bitLength()));
+        try {
+            for (int i = 0; i < count; i++) {
+                values[i] = reader.next();
+            }
+        } catch (BitReader.EndOfBits | ValueReader.Malformed e) {
+            throw new IllegalStateException("history block of " + channel + " cannot read back its own values", e);
+        }
+        return values;
+    }
+
+    private void encodeValues(ValueCoding coding, double[] values) {
         valueBits = new BitWriter(Math.max(256, count));
         writer = new ValueWriter(coding, valueBits);
         for (int i = 0; i < count; i++) {
@@ -210,16 +231,34 @@ public final class BlockEncoder {
         }
     }
 
-    private void rewriteTimes() {
+    /** Writes the time stream again in a finer step, reading back the timestamps from the current one. */
+    private void rewriteTimes(TimeResolution finer) {
+        long[] stamps = new long[count];
+        BitReader in = new BitReader(times.toByteArray(), 0, times.bitLength());
+        long at = firstNanos;
+        long delta = 0;
+        stamps[0] = at;
+        try {
+            for (int i = 1; i < count; i++) {
+                delta += BlockDecoder.deltaOfDelta(in);
+                at += delta * resolution.nanos;
+                stamps[i] = at;
+            }
+        } catch (BitReader.EndOfBits e) {
+            throw new IllegalStateException("history block of " + channel + " cannot read back its own times", e);
+        }
+        resolution = finer;
         times = new BitWriter(Math.max(256, count));
         prevDelta = 0;
+        prevNanos = firstNanos;
         for (int i = 1; i < count; i++) {
-            writeTime(i, nanos[i]);
+            writeTime(stamps[i]);
+            prevNanos = stamps[i];
         }
     }
 
-    private void writeTime(int index, long at) {
-        long delta = (at - nanos[index - 1]) / resolution.nanos;
+    private void writeTime(long at) {
+        long delta = (at - prevNanos) / resolution.nanos;
         writeDeltaOfDelta(delta - prevDelta);
         prevDelta = delta;
     }
@@ -278,8 +317,8 @@ public final class BlockEncoder {
         writeText(out, channelBytes);
         writeText(out, unitBytes);
         writeVarint(out, count);
-        writeLong(out, nanos[0]);
-        writeLong(out, nanos[count - 1]);
+        writeLong(out, firstNanos);
+        writeLong(out, prevNanos);
         writeVarint(out, runs.size());
         for (Run run : runs) {
             writeVarint(out, run.length);
