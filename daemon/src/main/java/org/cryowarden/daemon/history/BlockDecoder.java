@@ -32,9 +32,10 @@ final class BlockDecoder {
                     + BlockFormat.PREFIX_BYTES + "-byte prefix");
         }
         int version = data[4] & 0xFF;
-        if (version != BlockFormat.VERSION) {
+        if (version != BlockFormat.VERSION && version != BlockFormat.VERSION_1) {
             throw new CorruptBlockException(label, "format version " + version
-                    + " is not one this build reads (it reads version " + BlockFormat.VERSION + ")");
+                    + " is not one this build reads (it reads versions " + BlockFormat.VERSION_1 + " and "
+                    + BlockFormat.VERSION + ")");
         }
         long declared = readInt(data, 5) & 0xFFFFFFFFL;
         if (data.length < declared) {
@@ -57,7 +58,7 @@ final class BlockDecoder {
                     + ", computed 0x" + HexFormat.of().toHexDigits(computed) + "): the block is damaged");
         }
         try {
-            return header(label, data, end);
+            return version == BlockFormat.VERSION_1 ? header(label, data, end) : headerV2(label, data, end);
         } catch (IndexOutOfBoundsException e) {
             throw new CorruptBlockException(label, "corrupt header: it runs past the end of the block");
         }
@@ -117,8 +118,164 @@ final class BlockDecoder {
                 (int) count, data);
     }
 
+    private static HistoryBlock headerV2(String label, byte[] data, int end) {
+        Cursor cursor = new Cursor(data, BlockFormat.PREFIX_BYTES, end);
+        int resolutionCode = cursor.u8();
+        if (TimeResolution.ofCode(resolutionCode) == null) {
+            throw new CorruptBlockException(label, "corrupt header: unknown time resolution code " + resolutionCode);
+        }
+        coding(label, cursor);
+        String channel = cursor.text(label);
+        String symbol = cursor.text(label);
+        Optional<Unit> unit = Unit.bySymbol(symbol);
+        if (unit.isEmpty() || !unit.get().symbol().equals(symbol)) {
+            throw new CorruptBlockException(label, "corrupt header: unknown unit '" + symbol + "'");
+        }
+        long count = cursor.varint();
+        if (count < 1 || count > Integer.MAX_VALUE) {
+            throw new CorruptBlockException(label, "corrupt header: reading count " + count);
+        }
+        long first = cursor.i64();
+        long last = cursor.i64();
+        if (last < first) {
+            throw new CorruptBlockException(label, "corrupt header: last timestamp before the first");
+        }
+        runs(label, cursor, count);
+        for (String stream : new String[] {"time", "value"}) {
+            long bitLength = cursor.varint();
+            long streamBytes = (bitLength + 7) >>> 3;
+            if (bitLength < 0 || streamBytes > end - cursor.position
+                    || (stream.equals("value") && streamBytes != end - cursor.position)) {
+                throw new CorruptBlockException(label, "corrupt header: a " + stream + " stream of " + bitLength
+                        + " bits does not fit the " + (end - cursor.position) + " bytes left");
+            }
+            cursor.position += (int) streamBytes;
+        }
+        return new HistoryBlock(label, channel, unit.get(), BlockEncoder.instant(first), BlockEncoder.instant(last),
+                (int) count, data);
+    }
+
+    private static ValueCoding coding(String label, Cursor cursor) {
+        int code = cursor.u8();
+        ValueCoding.Kind kind = ValueCoding.Kind.ofCode(code);
+        if (kind == null) {
+            throw new CorruptBlockException(label, "corrupt header: unknown value coding " + code);
+        }
+        if (kind == ValueCoding.Kind.XOR) {
+            return ValueCoding.XOR;
+        }
+        long scale = cursor.varint();
+        int ulps = cursor.u8();
+        long step = cursor.varint();
+        long zigzag = cursor.varint();
+        long origin = (zigzag >>> 1) ^ -(zigzag & 1);
+        long maxScale = kind == ValueCoding.Kind.DECIMAL ? ValueCoding.MAX_DECIMAL_SCALE
+                : ValueCoding.MAX_BINARY_SCALE;
+        if (scale > maxScale || ulps > 1 || step < 1 || step >= ValueCoding.MAX_EXACT_INTEGER
+                || Math.abs(origin) >= ValueCoding.MAX_EXACT_INTEGER) {
+            throw new CorruptBlockException(label, "corrupt header: " + kind.name().toLowerCase(java.util.Locale.ROOT)
+                    + " lattice of scale " + scale + ", step " + step + ", origin " + origin + ", ulp flag " + ulps);
+        }
+        return new ValueCoding(kind, (int) scale, step, origin, ulps == 1);
+    }
+
+    private static void runs(String label, Cursor cursor, long count) {
+        long runCount = cursor.varint();
+        long covered = 0;
+        for (long i = 0; i < runCount; i++) {
+            long length = cursor.varint();
+            int quality = cursor.u8();
+            if (BlockFormat.quality(quality) == null) {
+                throw new CorruptBlockException(label, "corrupt header: unknown quality code " + quality);
+            }
+            cursor.text(label);
+            if (length < 1) {
+                throw new CorruptBlockException(label, "corrupt header: empty quality run");
+            }
+            covered += length;
+        }
+        if (covered != count) {
+            throw new CorruptBlockException(label, "corrupt header: quality runs cover " + covered
+                    + " readings but the block holds " + count);
+        }
+    }
+
     /** Decodes every reading of a block that {@link #parse} accepted (or that an encoder made). */
     static List<Reading> readings(HistoryBlock block) {
+        return (block.data()[4] & 0xFF) == BlockFormat.VERSION_1 ? readingsV1(block) : readingsV2(block);
+    }
+
+    private static List<Reading> readingsV2(HistoryBlock block) {
+        byte[] data = block.data();
+        String label = block.label();
+        int end = data.length - BlockFormat.CHECKSUM_BYTES;
+        Cursor cursor = new Cursor(data, BlockFormat.PREFIX_BYTES, end);
+        TimeResolution resolution = TimeResolution.ofCode(cursor.u8());
+        ValueCoding coding = coding(label, cursor);
+        String channel = cursor.text(label);
+        cursor.text(label);
+        int count = (int) cursor.varint();
+        long nanos = cursor.i64();
+        long last = cursor.i64();
+        int runCount = (int) cursor.varint();
+        Quality[] qualities = new Quality[runCount];
+        String[] reasons = new String[runCount];
+        int[] lengths = new int[runCount];
+        for (int i = 0; i < runCount; i++) {
+            lengths[i] = (int) cursor.varint();
+            qualities[i] = BlockFormat.quality(cursor.u8());
+            reasons[i] = cursor.text(label);
+        }
+        long timeBits = cursor.varint();
+        BitReader times = new BitReader(data, cursor.position, timeBits);
+        cursor.position += (int) ((timeBits + 7) >>> 3);
+        long valueBits = cursor.varint();
+        BitReader valueIn = new BitReader(data, cursor.position, valueBits);
+        ValueReader values = new ValueReader(coding, valueIn);
+        Unit unit = block.unit();
+        List<Reading> readings = new ArrayList<>(count);
+        int run = 0;
+        int leftInRun = lengths[0];
+        long delta = 0;
+        int index = 0;
+        try {
+            for (index = 0; index < count; index++) {
+                if (index > 0) {
+                    delta += deltaOfDelta(times);
+                    nanos += delta * resolution.nanos;
+                }
+                double value = values.next();
+                if (leftInRun == 0) {
+                    run++;
+                    leftInRun = lengths[run];
+                }
+                leftInRun--;
+                readings.add(new Reading(channel, value, unit, BlockEncoder.instant(nanos), qualities[run],
+                        reasons[run]));
+            }
+        } catch (BitReader.EndOfBits e) {
+            throw new CorruptBlockException(label, "corrupt: the streams of " + channel
+                    + " end inside reading " + (index + 1) + " of " + count);
+        } catch (ValueReader.Malformed e) {
+            throw new CorruptBlockException(label, "corrupt: reading " + (index + 1) + " of " + channel + " "
+                    + e.getMessage());
+        } catch (IllegalArgumentException e) {
+            throw new CorruptBlockException(label, "corrupt: reading " + (index + 1) + " of " + channel
+                    + " is not a valid reading (" + e.getMessage() + ")");
+        }
+        if (times.position() != timeBits || valueIn.position() != valueBits) {
+            throw new CorruptBlockException(label, "corrupt: " + (timeBits - times.position() + valueBits
+                    - valueIn.position()) + " bits follow the last reading of " + channel);
+        }
+        if (nanos != last) {
+            throw new CorruptBlockException(label, "corrupt: the readings of " + channel + " end at "
+                    + BlockEncoder.instant(nanos) + " but the header says " + BlockEncoder.instant(last));
+        }
+        return readings;
+    }
+
+    /** Version 1: one interleaved stream, XOR or an exact decimal scale; kept so older journals still replay. */
+    private static List<Reading> readingsV1(HistoryBlock block) {
         byte[] data = block.data();
         String label = block.label();
         int end = data.length - BlockFormat.CHECKSUM_BYTES;
@@ -233,7 +390,7 @@ final class BlockDecoder {
         return readings;
     }
 
-    private static long deltaOfDelta(BitReader in) throws BitReader.EndOfBits {
+    static long deltaOfDelta(BitReader in) throws BitReader.EndOfBits {
         return switch (unary(in)) {
             case 0 -> 0;
             case 1 -> signed(in.read(7), 7);

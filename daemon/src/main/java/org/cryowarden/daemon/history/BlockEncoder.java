@@ -4,6 +4,7 @@ import java.io.ByteArrayOutputStream;
 import java.nio.charset.StandardCharsets;
 import java.time.Instant;
 import java.util.ArrayList;
+import java.util.Arrays;
 import java.util.List;
 import java.util.Objects;
 import java.util.Optional;
@@ -13,43 +14,51 @@ import org.cryowarden.rules.Reading;
 import org.cryowarden.rules.Unit;
 
 /**
- * Builds the history block of one channel, reading by reading, in time order.
+ * Builds the history block of one channel, reading by reading, in time order (format version 2, see
+ * {@link BlockFormat}).
  *
- * <p>Timestamps are stored as delta-of-delta and values as XOR with the previous value, the method of
+ * <p>Timestamps are stored as delta-of-delta and values, by default, as XOR with the previous value: the method of
  * T. Pelkonen et al., "Gorilla: A Fast, Scalable, In-Memory Time Series Database", PVLDB 8(12), 2015, section 4.1.
- * Two additions keep it lossless and small on instrument data: the block counts time in the coarsest step (s, ms,
- * µs or ns) that every interval is a multiple of, and values that are exact decimals ({@code 20.93}, as an
- * instrument prints them) are stored as the difference of their scaled integers, which Gorilla's XOR does poorly on;
- * other values (NaN with its payload, infinities, -0.0, full-precision noise) escape to their raw 64 bits, and a
- * block where such values are common falls back to XOR for every value. Quality and reason are stored as runs, so
- * a night of GOOD readings costs a few bytes. When a reading needs a finer step or another value coding, the block
- * so far is re-encoded once; each can only become more general, so that happens a bounded number of times.
+ * Three extensions keep it lossless and small on instrument data. The block counts time in the coarsest step (s,
+ * ms, µs or ns) that every interval is a multiple of. Values that sit on a lattice (a printed decimal like
+ * {@code 20.93}; a register scaled through a 4-20 mA loop, k/640 give or take an ulp of rounding; a float32 scaled
+ * by a power of two) are stored as Rice-coded differences of their lattice integers plus a small ulp correction,
+ * see {@link ValueCoding}; XOR does poorly on them because a step of one unit flips most mantissa bits. Other values
+ * (NaN with its payload, infinities, -0.0, noise) escape to their raw 64 bits. Quality and reason are stored as
+ * runs, so a night of GOOD readings costs a few bytes.
+ *
+ * <p>Like version 1, the encoder holds only the bit streams (and the first values until a coding is chosen): what
+ * it re-encodes, it reads back from them. The value coding is chosen by trying XOR and the coarsest decimal and binary lattice on the block's first
+ * {@value #CHOOSE_AFTER} values (or at the first snapshot), chosen again when escapes pile up, and once more on
+ * every value when the block is sealed, so a sealed block is in the cheapest of the three. Timestamps move to a
+ * finer step when an interval needs it (at most three times). Every choice is made from the block's own values, so
+ * the same readings always give the same bytes.
  *
  * <p>{@link #snapshot()} may be taken at any time (e.g. at every journal flush) and appending continues after it.
  * Single-threaded: one encoder per channel, fed from the engine's thread.
  */
 public final class BlockEncoder {
 
-    private static final int ESCAPES_BEFORE_XOR = 8;
+    static final int CHOOSE_AFTER = 64;
+    private static final int ESCAPES_BEFORE_CHOOSING_AGAIN = 16;
+    private static final int MAX_CHOICES = 8;
 
     private final String channel;
     private final Unit unit;
     private final boolean xorOnly;
 
     private TimeResolution resolution = TimeResolution.SECOND;
-    private int coding;
-    private BitWriter bits = new BitWriter(256);
-    private int count;
+    private BitWriter times = new BitWriter(256);
     private long firstNanos;
     private long prevNanos;
+    /** The values before a coding is chosen; afterwards the value stream is the only copy. */
+    private final double[] early = new double[CHOOSE_AFTER];
+    private int count;
     private long prevDelta;
-    private long prevValueBits;
-    private int prevLeading = -1;
-    private int prevTrailing;
-    private long prevInteger;
-    private boolean haveEscape;
-    private long prevEscapeBits;
-    private int escapes;
+    private ValueWriter writer;
+    private BitWriter valueBits;
+    private int choices;
+    private int chooseAgainAt;
     private final List<Run> runs = new ArrayList<>();
 
     /** An encoder for readings of {@code channel}, whose values are in {@code unit}. */
@@ -64,16 +73,11 @@ public final class BlockEncoder {
             throw new IllegalArgumentException("a history block needs a channel id");
         }
         this.xorOnly = xorOnly;
-        this.coding = initialCoding();
     }
 
-    /** An encoder that codes every value with Gorilla's XOR alone: the baseline the decimal coding is measured against. */
+    /** An encoder that codes every value with Gorilla's XOR alone: the baseline the lattices are measured against. */
     static BlockEncoder xorOnly(String channel, Unit unit) {
         return new BlockEncoder(channel, unit, true);
-    }
-
-    private int initialCoding() {
-        return xorOnly ? BlockFormat.XOR_CODING : 0;
     }
 
     public String channel() {
@@ -102,6 +106,11 @@ public final class BlockEncoder {
         return count == 0 ? Optional.empty() : Optional.of(instant(prevNanos));
     }
 
+    /** The value coding in use; XOR until one is chosen. */
+    ValueCoding coding() {
+        return writer == null ? ValueCoding.XOR : writer.coding();
+    }
+
     /**
      * Appends a reading.
      *
@@ -117,20 +126,35 @@ public final class BlockEncoder {
             throw new IllegalArgumentException("reading of " + channel + " is in " + reading.unit().symbol()
                     + " but its history block is in " + unit.symbol());
         }
-        long nanos = nanos(reading.timestamp(), channel);
-        if (count > 0 && nanos < prevNanos) {
+        long at = nanos(reading.timestamp(), channel);
+        if (count > 0 && at < prevNanos) {
             throw new IllegalArgumentException("reading of " + channel + " at " + reading.timestamp()
                     + " is earlier than the previous one at " + instant(prevNanos)
                     + ": a history block takes readings in time order");
         }
-        double value = reading.value();
-        TimeResolution neededResolution = count == 0 ? resolution
-                : TimeResolution.fitting(nanos - prevNanos, resolution);
-        int neededCoding = neededCoding(value);
-        if (neededResolution != resolution || neededCoding != coding) {
-            reencode(neededResolution, neededCoding);
+        if (count > 0) {
+            TimeResolution needed = TimeResolution.fitting(at - prevNanos, resolution);
+            if (needed != resolution) {
+                rewriteTimes(needed);
+            }
+            writeTime(at);
+        } else {
+            firstNanos = at;
         }
-        write(nanos, value);
+        prevNanos = at;
+        double value = reading.value();
+        if (writer == null) {
+            early[count] = value;
+        }
+        count++;
+        if (writer != null) {
+            writer.write(value);
+            if (writer.escapes() >= chooseAgainAt && choices < MAX_CHOICES) {
+                choose();
+            }
+        } else if (count >= CHOOSE_AFTER) {
+            choose();
+        }
         addToRuns(reading.quality(), reading.reason());
     }
 
@@ -143,17 +167,30 @@ public final class BlockEncoder {
         if (count == 0) {
             throw new IllegalStateException("the history block of " + channel + " is empty");
         }
-        byte[] data = serialize();
-        return new HistoryBlock(label(), channel, unit, instant(firstNanos), instant(prevNanos), count, data);
+        if (writer == null) {
+            choose();
+        }
+        return new HistoryBlock(label(), channel, unit, instant(firstNanos), instant(prevNanos), count, serialize());
     }
 
-    /** The block so far, after which the encoder starts an empty block of the same channel. */
+    /** The block so far, in the cheapest coding for all its values, after which the encoder starts afresh. */
     public HistoryBlock seal() {
+        if (count > 0 && writer != null && !xorOnly) {
+            double[] values = values();
+            ValueCoding best = ValueCoding.cheapest(values, count);
+            if (!best.equals(writer.coding()) && ValueCoding.cost(best, values, count) < valueBits.bitLength()) {
+                encodeValues(best, values);
+            }
+        }
         HistoryBlock block = snapshot();
-        clear();
+        times = new BitWriter(256);
+        count = 0;
+        prevDelta = 0;
+        writer = null;
+        valueBits = null;
+        choices = 0;
         runs.clear();
         resolution = TimeResolution.SECOND;
-        coding = initialCoding();
         return block;
     }
 
@@ -161,142 +198,90 @@ public final class BlockEncoder {
         return channel + " from " + instant(firstNanos);
     }
 
-    private int neededCoding(double value) {
-        if (coding == BlockFormat.XOR_CODING || BlockFormat.decimal(value, coding)) {
-            return coding;
+    private void choose() {
+        choices++;
+        double[] values = values();
+        encodeValues(xorOnly ? ValueCoding.XOR : ValueCoding.cheapest(values, count), values);
+        chooseAgainAt = Math.max(ESCAPES_BEFORE_CHOOSING_AGAIN, 2 * writer.escapes());
+    }
+
+    /** Every value so far, read back from the value stream (the encoder keeps no other copy once it has one). */
+    private double[] values() {
+        if (writer == null) {
+            return Arrays.copyOf(early, count);
         }
-        for (int scale = coding + 1; scale <= BlockFormat.MAX_SCALE; scale++) {
-            if (BlockFormat.decimal(value, scale)) {
-                return scale;
+        double[] values = new double[count];
+        ValueReader reader = new ValueReader(writer.coding(),
+                new BitReader(valueBits.toByteArray(), 0, valueBits.bitLength()));
+        try {
+            for (int i = 0; i < count; i++) {
+                values[i] = reader.next();
             }
+        } catch (BitReader.EndOfBits | ValueReader.Malformed e) {
+            throw new IllegalStateException("history block of " + channel + " cannot read back its own values", e);
         }
-        int escapesAfter = escapes + 1;
-        if (escapesAfter >= ESCAPES_BEFORE_XOR && escapesAfter * 4L > count + 1L) {
-            return BlockFormat.XOR_CODING;
-        }
-        return coding;
+        return values;
     }
 
-    private void reencode(TimeResolution newResolution, int newCoding) {
-        List<Reading> previous = count == 0 ? List.of() : BlockDecoder.readings(snapshot());
-        clear();
-        resolution = newResolution;
-        coding = newCoding;
-        for (Reading reading : previous) {
-            write(nanos(reading.timestamp(), channel), reading.value());
+    private void encodeValues(ValueCoding coding, double[] values) {
+        valueBits = new BitWriter(Math.max(256, count));
+        writer = new ValueWriter(coding, valueBits);
+        for (int i = 0; i < count; i++) {
+            writer.write(values[i]);
         }
     }
 
-    private void clear() {
-        bits = new BitWriter(256);
-        count = 0;
+    /** Writes the time stream again in a finer step, reading back the timestamps from the current one. */
+    private void rewriteTimes(TimeResolution finer) {
+        long[] stamps = new long[count];
+        BitReader in = new BitReader(times.toByteArray(), 0, times.bitLength());
+        long at = firstNanos;
+        long delta = 0;
+        stamps[0] = at;
+        try {
+            for (int i = 1; i < count; i++) {
+                delta += BlockDecoder.deltaOfDelta(in);
+                at += delta * resolution.nanos;
+                stamps[i] = at;
+            }
+        } catch (BitReader.EndOfBits e) {
+            throw new IllegalStateException("history block of " + channel + " cannot read back its own times", e);
+        }
+        resolution = finer;
+        times = new BitWriter(Math.max(256, count));
         prevDelta = 0;
-        prevLeading = -1;
-        prevTrailing = 0;
-        prevInteger = 0;
-        haveEscape = false;
-        escapes = 0;
+        prevNanos = firstNanos;
+        for (int i = 1; i < count; i++) {
+            writeTime(stamps[i]);
+            prevNanos = stamps[i];
+        }
     }
 
-    private void write(long nanos, double value) {
-        if (count == 0) {
-            firstNanos = nanos;
-        } else {
-            long delta = (nanos - prevNanos) / resolution.nanos;
-            writeDeltaOfDelta(delta - prevDelta);
-            prevDelta = delta;
-        }
-        prevNanos = nanos;
-        if (coding == BlockFormat.XOR_CODING) {
-            writeXor(Double.doubleToRawLongBits(value));
-        } else {
-            writeDecimal(value);
-        }
-        count++;
+    private void writeTime(long at) {
+        long delta = (at - prevNanos) / resolution.nanos;
+        writeDeltaOfDelta(delta - prevDelta);
+        prevDelta = delta;
     }
 
     /** Gorilla's variable-length delta-of-delta, with a 64-bit escape so nanosecond steps of any size stay exact. */
     private void writeDeltaOfDelta(long dod) {
         if (dod == 0) {
-            bits.writeBit(false);
+            times.writeBit(false);
         } else if (fits(dod, 7)) {
-            bits.write(0b10, 2);
-            bits.write(dod, 7);
+            times.write(0b10, 2);
+            times.write(dod, 7);
         } else if (fits(dod, 9)) {
-            bits.write(0b110, 3);
-            bits.write(dod, 9);
+            times.write(0b110, 3);
+            times.write(dod, 9);
         } else if (fits(dod, 12)) {
-            bits.write(0b1110, 4);
-            bits.write(dod, 12);
+            times.write(0b1110, 4);
+            times.write(dod, 12);
         } else if (fits(dod, 32)) {
-            bits.write(0b11110, 5);
-            bits.write(dod, 32);
+            times.write(0b11110, 5);
+            times.write(dod, 32);
         } else {
-            bits.write(0b11111, 5);
-            bits.write(dod, 64);
-        }
-    }
-
-    private void writeXor(long valueBits) {
-        if (count == 0) {
-            bits.write(valueBits, 64);
-            prevValueBits = valueBits;
-            return;
-        }
-        long xor = valueBits ^ prevValueBits;
-        prevValueBits = valueBits;
-        if (xor == 0) {
-            bits.writeBit(false);
-            return;
-        }
-        int leading = Math.min(31, Long.numberOfLeadingZeros(xor));
-        int trailing = Long.numberOfTrailingZeros(xor);
-        if (prevLeading >= 0 && leading >= prevLeading && trailing >= prevTrailing) {
-            bits.write(0b10, 2);
-            bits.write(xor >>> prevTrailing, 64 - prevLeading - prevTrailing);
-        } else {
-            int significant = 64 - leading - trailing;
-            bits.write(0b11, 2);
-            bits.write(leading, 5);
-            bits.write(significant & 63, 6);
-            bits.write(xor >>> trailing, significant);
-            prevLeading = leading;
-            prevTrailing = trailing;
-        }
-    }
-
-    private void writeDecimal(double value) {
-        if (!BlockFormat.decimal(value, coding)) {
-            long raw = Double.doubleToRawLongBits(value);
-            bits.write(0b11111, 5);
-            if (haveEscape && raw == prevEscapeBits) {
-                bits.writeBit(false);
-            } else {
-                bits.writeBit(true);
-                bits.write(raw, 64);
-            }
-            haveEscape = true;
-            prevEscapeBits = raw;
-            escapes++;
-            return;
-        }
-        long integer = BlockFormat.decimalInteger(value, coding);
-        long delta = integer - prevInteger;
-        prevInteger = integer;
-        if (delta == 0) {
-            bits.writeBit(false);
-        } else if (fits(delta, 6)) {
-            bits.write(0b10, 2);
-            bits.write(delta, 6);
-        } else if (fits(delta, 12)) {
-            bits.write(0b110, 3);
-            bits.write(delta, 12);
-        } else if (fits(delta, 24)) {
-            bits.write(0b1110, 4);
-            bits.write(delta, 24);
-        } else {
-            bits.write(0b11110, 5);
-            bits.write(delta, 64);
+            times.write(0b11111, 5);
+            times.write(dod, 64);
         }
     }
 
@@ -314,13 +299,21 @@ public final class BlockEncoder {
     private byte[] serialize() {
         byte[] channelBytes = channel.getBytes(StandardCharsets.UTF_8);
         byte[] unitBytes = unit.symbol().getBytes(StandardCharsets.UTF_8);
-        byte[] stream = bits.toByteArray();
-        ByteArrayOutputStream out = new ByteArrayOutputStream(64 + stream.length);
+        byte[] timeStream = times.toByteArray();
+        byte[] valueStream = valueBits.toByteArray();
+        ValueCoding coding = writer.coding();
+        ByteArrayOutputStream out = new ByteArrayOutputStream(80 + timeStream.length + valueStream.length);
         out.writeBytes(BlockFormat.MAGIC);
         out.write(BlockFormat.VERSION);
         writeInt(out, 0);
         out.write(resolution.code);
-        out.write(coding);
+        out.write(coding.kind().code);
+        if (coding.kind() != ValueCoding.Kind.XOR) {
+            writeVarint(out, coding.scale());
+            out.write(coding.ulps() ? 1 : 0);
+            writeVarint(out, coding.step());
+            writeVarint(out, (coding.origin() << 1) ^ (coding.origin() >> 63));
+        }
         writeText(out, channelBytes);
         writeText(out, unitBytes);
         writeVarint(out, count);
@@ -332,8 +325,10 @@ public final class BlockEncoder {
             out.write(BlockFormat.qualityCode(run.quality));
             writeText(out, run.reason.getBytes(StandardCharsets.UTF_8));
         }
-        writeVarint(out, bits.bitLength());
-        out.writeBytes(stream);
+        writeVarint(out, times.bitLength());
+        out.writeBytes(timeStream);
+        writeVarint(out, valueBits.bitLength());
+        out.writeBytes(valueStream);
         writeInt(out, 0);
         byte[] data = out.toByteArray();
         int length = data.length;

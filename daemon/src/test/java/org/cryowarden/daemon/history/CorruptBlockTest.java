@@ -64,17 +64,17 @@ class CorruptBlockTest {
     @Test
     void newerFormatVersionIsRefusedByNumber() {
         byte[] data = block().toBytes();
-        data[4] = 2;
+        data[4] = 3;
 
         assertThatThrownBy(() -> HistoryBlock.parse(LABEL, data))
-                .hasMessage("history block journal.db row 42: format version 2 is not one this build reads "
-                        + "(it reads version 1)");
+                .hasMessage("history block journal.db row 42: format version 3 is not one this build reads "
+                        + "(it reads versions 1 and 2)");
     }
 
     @Test
     void reSealedBlockWithACutReadingStreamIsRefusedNotMisread() {
         byte[] data = block().toBytes();
-        // The last byte of the bit stream sits just before the checksum; rebuild the block without it, fixing the
+        // The last byte of the value stream (the bits of readings 19 and 20) sits just before the checksum; rebuild the block without it, fixing the
         // declared stream length and the checksum, as a buggy writer might.
         HistoryBlock original = HistoryBlock.parse(LABEL, data);
         assertThat(original.count()).isEqualTo(20);
@@ -88,14 +88,15 @@ class CorruptBlockTest {
 
         assertThatThrownBy(() -> HistoryBlock.parse(LABEL, cut).readings())
                 .isInstanceOf(CorruptBlockException.class)
-                .hasMessage("history block journal.db row 42: corrupt: the reading stream of o2_a ends inside "
-                        + "reading 20 of 20");
+                .hasMessage("history block journal.db row 42: corrupt: the streams of o2_a end inside "
+                        + "reading 19 of 20");
     }
 
     @Test
     void reSealedBlockWithAWrongCountIsRefused() {
         byte[] data = block().toBytes();
-        int countAt = 9 + 2 + 1 + "o2_a".length() + 1 + "%vol".length();
+        int countAt = new String(data, java.nio.charset.StandardCharsets.ISO_8859_1).indexOf("o2_a") + "o2_a".length()
+                + 1 + "%vol".length();
         assertThat(data[countAt]).isEqualTo((byte) 20);
         data[countAt] = 21;
         reseal(data);

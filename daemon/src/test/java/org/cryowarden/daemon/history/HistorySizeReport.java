@@ -1,14 +1,22 @@
 package org.cryowarden.daemon.history;
 
+import java.nio.file.Path;
 import java.time.Duration;
+import java.time.Instant;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;
+import org.cryowarden.daemon.journal.BlockRow;
+import org.cryowarden.daemon.journal.Journal;
+import org.cryowarden.daemon.journal.JournalSettings;
 import org.cryowarden.rules.Reading;
 
 /**
  * Measures bytes per reading and encode/decode throughput on the invented night series: run by hand (see the
  * developer guide), never by {@code mvn test}. Blocks of one hour (3,600 readings), as the journal would seal them.
+ * Given journal files (e.g. of {@code demo --journal FILE} nights), it also decodes every stored block, encodes
+ * its readings again as one block of the current format, checks that they come back bit for bit, and reports
+ * bytes per reading as stored and as now encoded, per channel and for the whole journal.
  */
 public final class HistorySizeReport {
 
@@ -17,7 +25,13 @@ public final class HistorySizeReport {
     private HistorySizeReport() {
     }
 
-    public static void main(String[] args) {
+    public static void main(String[] args) throws Exception {
+        for (String file : args) {
+            journal(Path.of(file));
+        }
+        if (args.length > 0) {
+            return;
+        }
         List<List<Reading>> night = List.of(Series.driftingLevel(1), Series.oxygenCell(2), Series.constant(),
                 Series.stepped());
         report("drifting level, 0.1 % resolution", night.get(0));
@@ -33,6 +47,46 @@ public final class HistorySizeReport {
         night.forEach(all::addAll);
         report("typical night: the four series above", all);
         throughput(night);
+    }
+
+    private static void journal(Path file) throws Exception {
+        long readings = 0;
+        long stored = 0;
+        long now = 0;
+        System.out.println(file);
+        try (Journal journal = Journal.open(file, JournalSettings.defaults())) {
+            for (String channel : journal.history().channels()) {
+                long channelReadings = 0;
+                long channelStored = 0;
+                long channelNow = 0;
+                String coding = "";
+                for (BlockRow row : journal.history().blocks(channel, Instant.EPOCH, Instant.parse("2262-01-01T00:00:00Z"))) {
+                    List<Reading> decoded = HistoryBlock.parse(channel, row.data()).readings();
+                    HistoryBlock again = blocks(decoded, false).get(0);
+                    List<Reading> back = HistoryBlock.parse(channel, again.toBytes()).readings();
+                    for (int i = 0; i < decoded.size(); i++) {
+                        Reading a = decoded.get(i);
+                        Reading b = back.get(i);
+                        if (Double.doubleToRawLongBits(a.value()) != Double.doubleToRawLongBits(b.value())
+                                || !a.timestamp().equals(b.timestamp()) || a.quality() != b.quality()
+                                || !a.reason().equals(b.reason())) {
+                            throw new AssertionError(channel + " reading " + i + ": " + a + " came back as " + b);
+                        }
+                    }
+                    channelReadings += decoded.size();
+                    channelStored += row.data().length;
+                    channelNow += again.byteSize();
+                }
+                System.out.printf(Locale.ROOT, "  %-26s %7d readings  stored %6.3f  now %6.3f bytes/reading%n",
+                        channel, channelReadings, (double) channelStored / channelReadings,
+                        (double) channelNow / channelReadings);
+                readings += channelReadings;
+                stored += channelStored;
+                now += channelNow;
+            }
+        }
+        System.out.printf(Locale.ROOT, "  %-26s %7d readings  stored %6.3f  now %6.3f bytes/reading (%d -> %d bytes)%n",
+                "all channels", readings, (double) stored / readings, (double) now / readings, stored, now);
     }
 
     private static void report(String name, List<Reading> readings) {

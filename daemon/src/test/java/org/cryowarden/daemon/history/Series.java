@@ -5,6 +5,7 @@ import java.time.Instant;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Random;
+import org.cryowarden.drivers.analog.CurrentLoop;
 import org.cryowarden.rules.Reading;
 import org.cryowarden.rules.Unit;
 
@@ -98,5 +99,34 @@ final class Series {
         BlockEncoder encoder = new BlockEncoder(readings.get(0).channel(), readings.get(0).unit());
         readings.forEach(encoder::append);
         return encoder.snapshot();
+    }
+    /**
+     * An oxygen cell at 20.9 %vol with noise of 0.03 %vol behind a 4-20 mA transmitter read as a 16-bit register
+     * in µA (scale 0.001) and scaled on 0-25 %vol by the driver's own loop conversion: k/640 give or take an ulp.
+     */
+    static List<Reading> loopOxygen(long seed) {
+        Random random = new Random(seed);
+        CurrentLoop loop = new CurrentLoop(0, 25);
+        List<Reading> readings = new ArrayList<>(NIGHT);
+        for (int t = 0; t < NIGHT; t++) {
+            double o2 = 20.9 + random.nextGaussian() * 0.03;
+            long register = Math.round(loop.milliampsFor(o2) * 1000);
+            readings.add(good("o2_loop", loop.convert(register * 0.001).value(), Unit.PERCENT_VOLUME,
+                    DUSK.plusSeconds(t)));
+        }
+        return readings;
+    }
+
+    /** A bath pressure near 1 kPa(g) with noise of 0.05 behind a 4-20 mA loop read as a float32 register in mA. */
+    static List<Reading> loopPressure(long seed) {
+        Random random = new Random(seed);
+        CurrentLoop loop = new CurrentLoop(0, 100);
+        List<Reading> readings = new ArrayList<>(NIGHT);
+        for (int t = 0; t < NIGHT; t++) {
+            float milliamps = (float) loop.milliampsFor(1.0 + random.nextGaussian() * 0.05);
+            readings.add(good("p_bath", loop.convert(milliamps).value(), Unit.KILOPASCAL_GAUGE,
+                    DUSK.plusSeconds(t)));
+        }
+        return readings;
     }
 }

@@ -1,14 +1,23 @@
 package org.cryowarden.daemon.replay;
 
+import java.nio.file.Path;
 import java.time.Duration;
 import java.time.Instant;
 import java.util.ArrayList;
+import java.util.Arrays;
 import java.util.Iterator;
 import java.util.List;
 import java.util.Locale;
 import java.util.Optional;
 import java.util.Random;
 import org.cryowarden.daemon.history.BlockEncoder;
+import org.cryowarden.daemon.journal.HistoryTable;
+import org.cryowarden.daemon.journal.Journal;
+import org.cryowarden.daemon.journal.JournalSettings;
+import org.cryowarden.daemon.run.SiteSetup;
+import org.cryowarden.drivers.plugin.DriverCatalog;
+import org.cryowarden.rules.TimeSource;
+import org.cryowarden.rules.config.Configuration;
 import org.cryowarden.daemon.history.BlockReadings;
 import org.cryowarden.daemon.history.HistoryBlock;
 import org.cryowarden.daemon.history.MergedReadings;
@@ -40,7 +49,11 @@ public final class ReplaySpeedReport {
     private ReplaySpeedReport() {
     }
 
-    public static void main(String[] args) {
+    public static void main(String[] args) throws Exception {
+        if (args.length >= 3) {
+            journal(Path.of(args[0]), Path.of(args[1]), Arrays.stream(args).skip(2).map(Path::of).toList());
+            return;
+        }
         List<List<HistoryBlock>> history = history();
         EngineConfig config = config();
         long readings = (long) CHANNELS * SECONDS;
@@ -66,6 +79,44 @@ public final class ReplaySpeedReport {
         System.out.printf(Locale.ROOT, "replay from blocks: %.2f M readings/s; from decoded readings: %.2f M "
                 + "readings/s; one day of 200 channels at 1 Hz (17.28 M readings): %.1f s%n", best / 1e6,
                 bestEngineOnly / 1e6, 17_280_000 / best);
+    }
+
+    /**
+     * A recorded night of a real site: the stored blocks decoded and merged alone, then the whole replay (decode,
+     * merge and engine) through {@link JournalReplay}, best of five each; the engine's share is the difference.
+     */
+    private static void journal(Path file, Path site, List<Path> rules) throws Exception {
+        Configuration configuration = SiteSetup.load(site, rules,
+                DriverCatalog.discover(ReplaySpeedReport.class.getClassLoader(), Optional.empty()),
+                TimeSource.system());
+        try (Journal journal = Journal.open(file, JournalSettings.defaults())) {
+            HistoryTable.Span span = journal.history().span().orElseThrow();
+            List<String> order = JournalReplay.pollOrder(configuration.site());
+            double bestRead = Double.MAX_VALUE;
+            double bestReplay = Double.MAX_VALUE;
+            long readings = 0;
+            for (int round = 0; round < 5; round++) {
+                long start = System.nanoTime();
+                Iterator<Reading> stream = new JournalHistory(journal).readings(order, span.first(), span.last());
+                long n = 0;
+                while (stream.hasNext()) {
+                    stream.next();
+                    n++;
+                }
+                bestRead = Math.min(bestRead, (System.nanoTime() - start) / 1e9);
+                readings = n;
+                start = System.nanoTime();
+                JournalReplay.run(journal, configuration.site(), configuration.rules(), new JournalReplay.Request(
+                        Optional.empty(), Optional.empty(), Optional.empty(), AnalysisSettings.defaults()));
+                bestReplay = Math.min(bestReplay, (System.nanoTime() - start) / 1e9);
+            }
+            double perDay = 17_280_000.0 / readings;
+            System.out.printf(Locale.ROOT, "%s: %d readings; read, decode and merge %.3f s (%.2f M/s); whole replay "
+                    + "%.3f s (%.2f M/s); engine and analysis %.3f s%n", file, readings, bestRead,
+                    readings / bestRead / 1e6, bestReplay, readings / bestReplay / 1e6, bestReplay - bestRead);
+            System.out.printf(Locale.ROOT, "scaled to 17.28 M readings: decode+merge %.1f s, engine %.1f s, "
+                    + "total %.1f s%n", bestRead * perDay, (bestReplay - bestRead) * perDay, bestReplay * perDay);
+        }
     }
 
     private static Iterator<Reading> merged(List<List<HistoryBlock>> history) {
