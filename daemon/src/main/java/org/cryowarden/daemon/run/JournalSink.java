@@ -2,7 +2,9 @@ package org.cryowarden.daemon.run;
 
 import java.util.ArrayList;
 import java.util.List;
+import java.time.Instant;
 import java.util.Map;
+import java.util.Optional;
 import java.util.OptionalLong;
 import java.util.concurrent.CopyOnWriteArrayList;
 import java.util.concurrent.LinkedBlockingQueue;
@@ -26,8 +28,14 @@ final class JournalSink implements AutoCloseable {
     private static final Logger LOG = LoggerFactory.getLogger(JournalSink.class);
     private static final Logger EVENTS = LoggerFactory.getLogger("org.cryowarden.event");
 
-    /** A batch as recorded, with the sequence number of each event (empty when the journal failed). */
-    record Committed(EventBatch batch, List<OptionalLong> seqs) {
+    /**
+     * A batch as recorded, with the sequence number of each event (empty when the journal failed) and, when it
+     * failed, why, in words an operator can act on.
+     */
+    record Committed(EventBatch batch, List<OptionalLong> seqs, Optional<String> problem) {
+        Committed(EventBatch batch, List<OptionalLong> seqs) {
+            this(batch, seqs, Optional.empty());
+        }
     }
 
     interface Listener {
@@ -40,6 +48,10 @@ final class JournalSink implements AutoCloseable {
     private final List<Listener> listeners = new CopyOnWriteArrayList<>();
     private final AtomicLong waits = new AtomicLong();
     private final AtomicLong failures = new AtomicLong();
+    /** Events not recorded since the journal last wrote; told in a {@code journal.gap} event once it writes again. */
+    private long unrecorded;
+    private Instant unrecordedSince;
+    private String unrecordedProblem;
     private volatile boolean busy;
     private volatile boolean running;
     private Thread thread;
@@ -133,9 +145,16 @@ final class JournalSink implements AutoCloseable {
 
     private void record(EventBatch batch) {
         List<OptionalLong> seqs = new ArrayList<>();
+        Optional<String> problem = Optional.empty();
         if (!batch.events().isEmpty() || !batch.states().isEmpty()) {
+            Optional<DaemonEvent> gap = gap(batch);
             try {
                 List<Long> numbers = journal.write(batch.events().size() + " events", tx -> {
+                    if (gap.isPresent()) {
+                        long seq = tx.appendEvent(gap.get().toJournal());
+                        tx.enqueue("mqtt", eventTopic, Payloads.text(gap.get().published(seq)), OptionalLong.of(seq),
+                                gap.get().at());
+                    }
                     List<Long> result = new ArrayList<>();
                     long last = -1;
                     for (DaemonEvent event : batch.events()) {
@@ -153,20 +172,34 @@ final class JournalSink implements AutoCloseable {
                     }
                     return result;
                 });
+                if (gap.isPresent()) {
+                    LOG.warn("the journal records again; {} events from {} on were not recorded ({})", unrecorded,
+                            unrecordedSince, unrecordedProblem);
+                    unrecorded = 0;
+                    unrecordedSince = null;
+                    unrecordedProblem = null;
+                }
                 for (int i = 0; i < numbers.size(); i++) {
                     seqs.add(OptionalLong.of(numbers.get(i)));
                     EVENTS.info(batch.events().get(i).logLine(numbers.get(i)));
                 }
             } catch (JournalException e) {
                 failures.incrementAndGet();
-                LOG.error("{}", e.getMessage());
+                problem = Optional.of(e.getMessage());
+                LOG.error("{}; {} events and the alarm states they changed are not recorded (published all the"
+                        + " same, marked not recorded)", e.getMessage(), batch.events().size());
+                if (unrecordedSince == null && !batch.events().isEmpty()) {
+                    unrecordedSince = batch.events().get(0).at();
+                }
+                unrecorded += batch.events().size();
+                unrecordedProblem = e.getMessage();
                 for (DaemonEvent event : batch.events()) {
                     seqs.add(OptionalLong.empty());
                     EVENTS.warn("NOT RECORDED " + event.logLine(0));
                 }
             }
         }
-        Committed committed = new Committed(batch, seqs);
+        Committed committed = new Committed(batch, seqs, problem);
         for (Listener listener : listeners) {
             try {
                 listener.committed(committed);
@@ -174,5 +207,20 @@ final class JournalSink implements AutoCloseable {
                 LOG.error("journal listener failed", e);
             }
         }
+    }
+
+    /** The {@code journal.gap} event to record first once the journal writes again after failing. */
+    private Optional<DaemonEvent> gap(EventBatch batch) {
+        if (unrecorded == 0 || batch.events().isEmpty()) {
+            return Optional.empty();
+        }
+        com.fasterxml.jackson.databind.node.ObjectNode payload = Payloads.object();
+        payload.put("cause", unrecorded + " events from " + unrecordedSince + " on were not recorded: "
+                + unrecordedProblem);
+        payload.put("not_recorded", unrecorded);
+        payload.put("since", unrecordedSince.toString());
+        payload.put("problem", unrecordedProblem);
+        return Optional.of(new DaemonEvent("journal.gap", batch.events().get(0).at(), Optional.empty(),
+                Optional.empty(), payload));
     }
 }
