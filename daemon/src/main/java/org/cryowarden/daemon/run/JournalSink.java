@@ -1,11 +1,14 @@
 package org.cryowarden.daemon.run;
 
 import java.util.ArrayList;
+import java.util.Collections;
+import java.util.IdentityHashMap;
 import java.util.List;
 import java.time.Instant;
 import java.util.Map;
 import java.util.Optional;
 import java.util.OptionalLong;
+import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.CopyOnWriteArrayList;
 import java.util.concurrent.LinkedBlockingQueue;
 import java.util.concurrent.TimeUnit;
@@ -48,6 +51,9 @@ final class JournalSink implements AutoCloseable {
     private final List<Listener> listeners = new CopyOnWriteArrayList<>();
     private final AtomicLong waits = new AtomicLong();
     private final AtomicLong failures = new AtomicLong();
+    /** Marker batches (by identity) and who waits for everything queued before them to be recorded. */
+    private final Map<EventBatch, CompletableFuture<Void>> barriers =
+            Collections.synchronizedMap(new IdentityHashMap<>());
     /** Events not recorded since the journal last wrote; told in a {@code journal.gap} event once it writes again. */
     private long unrecorded;
     private Instant unrecordedSince;
@@ -84,6 +90,18 @@ final class JournalSink implements AutoCloseable {
                         batch.events().size());
             }
         }
+    }
+
+    /**
+     * Completes once every batch offered before this call has been recorded (or failed to be): an operator is told
+     * a command was done only when a {@code kill -9} can no longer take it back.
+     */
+    CompletableFuture<Void> recordedSoFar() {
+        CompletableFuture<Void> done = new CompletableFuture<>();
+        EventBatch marker = new EventBatch(List.of(), Map.of(), Map.of(), Payloads.object());
+        barriers.put(marker, done);
+        offer(marker);
+        return done;
     }
 
     int depth() {
@@ -144,6 +162,11 @@ final class JournalSink implements AutoCloseable {
     }
 
     private void record(EventBatch batch) {
+        CompletableFuture<Void> barrier = barriers.remove(batch);
+        if (barrier != null) {
+            barrier.complete(null);
+            return;
+        }
         List<OptionalLong> seqs = new ArrayList<>();
         Optional<String> problem = Optional.empty();
         if (!batch.events().isEmpty() || !batch.states().isEmpty()) {
