@@ -111,11 +111,17 @@ class KillNineCampaignJarProcessTest {
                         assertThat(daemon.awaitExit(Duration.ofSeconds(30))).as(daemon.output()).isTrue();
                         break;
                     }
+                    if (point >= POINTS / 2) {
+                        // The second half of the campaign falls after the trip, with alarms to acknowledge.
+                        await(() -> tripped(journalFile), 120, daemon);
+                        await(() -> alarms(dashboard, prefix).values().stream()
+                                .anyMatch(a -> a.path("state").asText().endsWith("-unacknowledged")), 30, daemon);
+                    }
                     String ackTarget = alarms(dashboard, prefix).entrySet().stream()
                             .filter(a -> a.getValue().path("state").asText().endsWith("-unacknowledged"))
                             .map(Map.Entry::getKey).findFirst().orElse(null);
                     String operator = "Ada-" + point;
-                    if (ackTarget != null && random.nextBoolean()) {
+                    if (ackTarget != null && (point >= POINTS / 2 || random.nextBoolean())) {
                         dashboard.request(prefix + "/command/ack", "{\"target\": \"" + ackTarget + "\","
                                 + " \"operator\": \"" + operator + "\"}", prefix + "/replies/campaign", "ack-" + point);
                     }

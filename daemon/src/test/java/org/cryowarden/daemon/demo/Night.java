@@ -57,11 +57,16 @@ final class Night implements AutoCloseable {
 
     /** As {@link #start(Path, String, boolean)}, with the journal in the given file. */
     static Night start(Path folder, String broker, boolean ptys, Path journal) throws Exception {
+        return start(folder, broker, ptys, journal, "harbour-hall-quench-scenario.yaml");
+    }
+
+    /** As {@link #start(Path, String, boolean, Path)}, with another scenario of config-examples. */
+    static Night start(Path folder, String broker, boolean ptys, Path journal, String scenarioFile) throws Exception {
         Path examples = Files.createDirectories(folder.resolve("config-examples"));
-        for (String name : List.of(DemoFiles.SITE, DemoFiles.RULES, "harbour-hall-quench-scenario.yaml")) {
+        for (String name : List.of(DemoFiles.SITE, DemoFiles.RULES, scenarioFile)) {
             Files.copy(Path.of("..", "config-examples", name), examples.resolve(name));
         }
-        Scenario scenario = DemoNight.unpaced(ScenarioReader.read(examples.resolve("harbour-hall-quench-scenario.yaml")));
+        Scenario scenario = DemoNight.unpaced(ScenarioReader.read(examples.resolve(scenarioFile)));
         VirtualTimeSource clock = new VirtualTimeSource(scenario.start());
         DriverCatalog catalog = DriverCatalog.discover(Night.class.getClassLoader(), Optional.empty());
         Path site = examples.resolve(DemoFiles.SITE);
