@@ -102,16 +102,18 @@ final class SoakRun {
                 if (faulty != null) {
                     faulty.clearFault(Optional.empty());
                 }
-                List<JournalEvent> all = night.daemon.eventsAfter(0, Integer.MAX_VALUE);
-                long journaled = all.isEmpty() ? 0 : all.get(all.size() - 1).seq();
+                long dayStart = journaledBefore;
+                List<JournalEvent> today = night.daemon.eventsAfter(dayStart, Integer.MAX_VALUE);
+                long journaled = today.isEmpty() ? dayStart : today.get(today.size() - 1).seq();
+                String kinds = kinds(today);
+                today = null; // measured below: the day's events must not count as the daemon's heap
                 long deadline = System.nanoTime() + Duration.ofSeconds(30).toNanos();
                 while (maxSeq(dashboard) < journaled && System.nanoTime() < deadline) {
                     Thread.sleep(20);
                 }
                 long seen = dashboard.on(night.prefix + "/event").stream()
-                        .filter(m -> seq(m) > 0 && seq(m) <= journaled).count();
-                long dayStart = journaledBefore;
-                long lost = (journaled - journaledBefore) - seen;
+                        .filter(m -> seq(m) > dayStart && seq(m) <= journaled).count();
+                long lost = (journaled - dayStart) - seen;
                 dashboard.received.clear();
                 lostTotal += lost;
                 journaledBefore = journaled;
@@ -121,7 +123,7 @@ final class SoakRun {
                 Day figure = new Day(day, heapMb, Thread.activeCount(), openFileDescriptors(), journaled - dayStart,
                         lost, faults);
                 figures.add(figure);
-                System.out.println(figure + " " + kinds(all.subList((int) dayStart, all.size())));
+                System.out.println(figure + " " + kinds);
             }
         }
         return figures;
