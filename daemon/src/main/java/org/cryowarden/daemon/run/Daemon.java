@@ -177,7 +177,7 @@ public final class Daemon implements AutoCloseable {
             link = link.withCredentials(settings.username().get(), readSecret(settings.passwordFile()));
         }
         this.bridge = new MqttBridge(new MqttLink(link), settings.prefix(), journal, time,
-                new ReportByException(settings.deadbands(), settings.maxInterval()), loop::command,
+                new ReportByException(settings.deadbands(), settings.maxInterval()), this::command,
                 this::commandRefused);
         bridgeRef.bridge = bridge;
         journalSink.addListener(bridge);
@@ -447,8 +447,14 @@ public final class Daemon implements AutoCloseable {
         });
     }
 
+    /**
+     * Runs an operator's command; completes with the refusal, or empty once the command and what it changed are
+     * recorded in the journal (so that a reply of "done" survives a kill -9).
+     */
     public CompletableFuture<Optional<String>> command(OperatorCommand command) {
-        return loop.command(command);
+        return loop.command(command).thenCompose(refusal -> refusal.isPresent()
+                ? CompletableFuture.completedFuture(refusal)
+                : journalSink.recordedSoFar().thenApply(recorded -> refusal));
     }
 
     /**

@@ -1,9 +1,14 @@
 package org.cryowarden.daemon.run;
 
 import java.util.ArrayList;
+import java.util.Collections;
+import java.util.IdentityHashMap;
 import java.util.List;
+import java.time.Instant;
 import java.util.Map;
+import java.util.Optional;
 import java.util.OptionalLong;
+import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.CopyOnWriteArrayList;
 import java.util.concurrent.LinkedBlockingQueue;
 import java.util.concurrent.TimeUnit;
@@ -29,8 +34,14 @@ final class JournalSink implements AutoCloseable {
     private static final Logger LOG = LoggerFactory.getLogger(JournalSink.class);
     private static final Logger EVENTS = LoggerFactory.getLogger("org.cryowarden.event");
 
-    /** A batch as recorded, with the sequence number of each event (empty when the journal failed). */
-    record Committed(EventBatch batch, List<OptionalLong> seqs) {
+    /**
+     * A batch as recorded, with the sequence number of each event (empty when the journal failed) and, when it
+     * failed, why, in words an operator can act on.
+     */
+    record Committed(EventBatch batch, List<OptionalLong> seqs, Optional<String> problem) {
+        Committed(EventBatch batch, List<OptionalLong> seqs) {
+            this(batch, seqs, Optional.empty());
+        }
     }
 
     interface Listener {
@@ -43,6 +54,13 @@ final class JournalSink implements AutoCloseable {
     private final List<Listener> listeners = new CopyOnWriteArrayList<>();
     private final AtomicLong waits = new AtomicLong();
     private final AtomicLong failures = new AtomicLong();
+    /** Marker batches (by identity) and who waits for everything queued before them to be recorded. */
+    private final Map<EventBatch, CompletableFuture<Void>> barriers =
+            Collections.synchronizedMap(new IdentityHashMap<>());
+    /** Events not recorded since the journal last wrote; told in a {@code journal.gap} event once it writes again. */
+    private long unrecorded;
+    private Instant unrecordedSince;
+    private String unrecordedProblem;
     private volatile boolean busy;
     private volatile boolean running;
     private Thread thread;
@@ -75,6 +93,18 @@ final class JournalSink implements AutoCloseable {
                         batch.events().size());
             }
         }
+    }
+
+    /**
+     * Completes once every batch offered before this call has been recorded (or failed to be): an operator is told
+     * a command was done only when a {@code kill -9} can no longer take it back.
+     */
+    CompletableFuture<Void> recordedSoFar() {
+        CompletableFuture<Void> done = new CompletableFuture<>();
+        EventBatch marker = new EventBatch(List.of(), Map.of(), Map.of(), Payloads.object());
+        barriers.put(marker, done);
+        offer(marker);
+        return done;
     }
 
     int depth() {
@@ -144,23 +174,56 @@ final class JournalSink implements AutoCloseable {
     }
 
     /**
+     * Records the batches, a run between two barrier markers in one transaction, and completes each barrier once
+     * everything before it is recorded.
+     */
+    private void record(List<EventBatch> batches) {
+        List<EventBatch> run = new ArrayList<>(batches.size());
+        for (EventBatch batch : batches) {
+            CompletableFuture<Void> barrier = barriers.remove(batch);
+            if (barrier == null) {
+                run.add(batch);
+                continue;
+            }
+            recordTogether(run);
+            run.clear();
+            barrier.complete(null);
+        }
+        recordTogether(run);
+    }
+
+    /**
      * Records the batches in one transaction, then tells the listeners batch by batch, in order: nothing is
      * published before it is recorded.
      */
-    private void record(List<EventBatch> batches) {
+    private void recordTogether(List<EventBatch> batches) {
+        if (batches.isEmpty()) {
+            return;
+        }
         List<List<OptionalLong>> seqs = new ArrayList<>(batches.size());
         for (int b = 0; b < batches.size(); b++) {
             seqs.add(new ArrayList<>());
         }
         int events = 0;
         boolean anything = false;
+        Optional<DaemonEvent> gap = Optional.empty();
         for (EventBatch batch : batches) {
             events += batch.events().size();
             anything |= !batch.events().isEmpty() || !batch.states().isEmpty();
+            if (gap.isEmpty()) {
+                gap = gap(batch);
+            }
         }
+        Optional<String> problem = Optional.empty();
         if (anything) {
+            Optional<DaemonEvent> gapEvent = gap;
             try {
                 List<List<Long>> numbers = journal.write(events + " events", tx -> {
+                    if (gapEvent.isPresent()) {
+                        long seq = tx.appendEvent(gapEvent.get().toJournal());
+                        tx.enqueue("mqtt", eventTopic, Payloads.text(gapEvent.get().published(seq)),
+                                OptionalLong.of(seq), gapEvent.get().at());
+                    }
                     List<List<Long>> result = new ArrayList<>(batches.size());
                     for (EventBatch batch : batches) {
                         List<Long> numbered = new ArrayList<>(batch.events().size());
@@ -182,6 +245,13 @@ final class JournalSink implements AutoCloseable {
                     }
                     return result;
                 });
+                if (gapEvent.isPresent()) {
+                    LOG.warn("the journal records again; {} events from {} on were not recorded ({})", unrecorded,
+                            unrecordedSince, unrecordedProblem);
+                    unrecorded = 0;
+                    unrecordedSince = null;
+                    unrecordedProblem = null;
+                }
                 for (int b = 0; b < batches.size(); b++) {
                     List<Long> numbered = numbers.get(b);
                     for (int i = 0; i < numbered.size(); i++) {
@@ -191,17 +261,25 @@ final class JournalSink implements AutoCloseable {
                 }
             } catch (JournalException e) {
                 failures.incrementAndGet();
-                LOG.error("{}", e.getMessage());
+                problem = Optional.of(e.getMessage());
+                LOG.error("{}; {} events and the alarm states they changed are not recorded (published all the"
+                        + " same, marked not recorded)", e.getMessage(), events);
                 for (int b = 0; b < batches.size(); b++) {
-                    for (DaemonEvent event : batches.get(b).events()) {
+                    EventBatch batch = batches.get(b);
+                    if (unrecordedSince == null && !batch.events().isEmpty()) {
+                        unrecordedSince = batch.events().get(0).at();
+                    }
+                    unrecorded += batch.events().size();
+                    for (DaemonEvent event : batch.events()) {
                         seqs.get(b).add(OptionalLong.empty());
                         EVENTS.warn("NOT RECORDED " + event.logLine(0));
                     }
                 }
+                unrecordedProblem = e.getMessage();
             }
         }
         for (int b = 0; b < batches.size(); b++) {
-            Committed committed = new Committed(batches.get(b), seqs.get(b));
+            Committed committed = new Committed(batches.get(b), seqs.get(b), problem);
             for (Listener listener : listeners) {
                 try {
                     listener.committed(committed);
@@ -210,5 +288,20 @@ final class JournalSink implements AutoCloseable {
                 }
             }
         }
+    }
+
+    /** The {@code journal.gap} event to record first once the journal writes again after failing. */
+    private Optional<DaemonEvent> gap(EventBatch batch) {
+        if (unrecorded == 0 || batch.events().isEmpty()) {
+            return Optional.empty();
+        }
+        com.fasterxml.jackson.databind.node.ObjectNode payload = Payloads.object();
+        payload.put("cause", unrecorded + " events from " + unrecordedSince + " on were not recorded: "
+                + unrecordedProblem);
+        payload.put("not_recorded", unrecorded);
+        payload.put("since", unrecordedSince.toString());
+        payload.put("problem", unrecordedProblem);
+        return Optional.of(new DaemonEvent("journal.gap", batch.events().get(0).at(), Optional.empty(),
+                Optional.empty(), payload));
     }
 }

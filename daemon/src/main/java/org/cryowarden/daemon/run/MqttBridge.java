@@ -39,7 +39,10 @@ import org.slf4j.LoggerFactory;
  *   <li>{@code event} QoS 1 from the journal's outbox in sequence order, a window of them in flight on the one
  *       connection, each marked delivered after its PUBACK, so a broker outage delays events but never loses or
  *       reorders them;</li>
- *   <li>{@code command/<verb>} requests, answered on their MQTT 5 Response Topic with the Correlation Data.</li>
+ *   <li>{@code command/<verb>} requests, answered on their MQTT 5 Response Topic with the Correlation Data;</li>
+ *   <li>{@code journal} retained QoS 1, only once the journal failed: {@code not recording} with the problem, then
+ *       {@code recording} again. Events the journal could not record go out on {@code event} at once, without
+ *       {@code seq} and with {@code "recorded": false}, so the alarm still reaches the dashboard.</li>
  * </ul>
  * After every (re)connect the current readings, alarms and summary are published again.
  */
@@ -75,6 +78,9 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
     private final Object alarmLock = new Object();
     private final Map<String, String> alarmDocuments = new LinkedHashMap<>();
     private String summaryDocument;
+    private String journalDocument;
+    private boolean journalFailing;
+    private String journalProblem;
 
     private final AtomicLong readingsPublished = new AtomicLong();
     private final AtomicLong eventsPublished = new AtomicLong();
@@ -157,6 +163,7 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
                 link.publish(OutgoingMessage.atLeastOnce(prefix + "/summary", summary, true));
             }
         }
+        journalState(committed);
         if (!batch.events().isEmpty()) {
             lock.lock();
             try {
@@ -232,6 +239,48 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
             }
             if (summaryDocument != null) {
                 link.publish(OutgoingMessage.atLeastOnce(prefix + "/summary", summaryDocument, true));
+            }
+            if (journalDocument != null) {
+                link.publish(OutgoingMessage.atLeastOnce(prefix + "/journal", journalDocument, true));
+            }
+        }
+    }
+
+    /** Publishes unrecorded events straight away, and the journal's state when it changes. */
+    private void journalState(JournalSink.Committed committed) {
+        List<DaemonEvent> events = committed.batch().events();
+        String document = null;
+        synchronized (alarmLock) {
+            if (committed.problem().isPresent() && !committed.problem().get().equals(journalProblem)) {
+                journalProblem = committed.problem().get();
+                ObjectNode node = Payloads.object();
+                node.put("state", "not recording");
+                node.put("problem", committed.problem().get());
+                node.put("time", time.wallNow().toString());
+                document = Payloads.text(node);
+                journalFailing = true;
+            } else if (committed.problem().isEmpty() && journalFailing && !events.isEmpty()) {
+                journalFailing = false;
+                journalProblem = null;
+                ObjectNode node = Payloads.object();
+                node.put("state", "recording");
+                node.put("time", time.wallNow().toString());
+                document = Payloads.text(node);
+            }
+            if (document != null) {
+                journalDocument = document;
+                if (link.isConnected()) {
+                    link.publish(OutgoingMessage.atLeastOnce(prefix + "/journal", document, true));
+                }
+            }
+        }
+        if (committed.problem().isPresent() && link.isConnected()) {
+            for (DaemonEvent event : events) {
+                ObjectNode node = event.published(0);
+                node.remove("seq");
+                node.put("recorded", false);
+                node.put("not_recorded_because", committed.problem().get());
+                link.publish(OutgoingMessage.atLeastOnce(prefix + "/event", Payloads.text(node), false));
             }
         }
     }

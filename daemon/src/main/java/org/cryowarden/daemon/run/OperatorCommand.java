@@ -1,7 +1,9 @@
 package org.cryowarden.daemon.run;
 
 import com.fasterxml.jackson.core.JsonProcessingException;
+import com.fasterxml.jackson.core.JsonParser;
 import com.fasterxml.jackson.databind.JsonNode;
+import com.fasterxml.jackson.databind.ObjectReader;
 import java.nio.charset.StandardCharsets;
 import java.time.Duration;
 import java.util.Iterator;
@@ -30,6 +32,13 @@ public record OperatorCommand(String verb, String target, String operator, Strin
     public static final List<String> VERBS = List.of("ack", "shelve", "unshelve", "reset", "bypass");
 
     private static final List<String> FIELDS = List.of("target", "operator", "note", "duration", "reason");
+
+    /**
+     * Refuses a repeated key and anything after the object: otherwise the last of two {@code "operator"} keys
+     * would win unseen by whatever read the first, and a second object could ride along behind the first.
+     */
+    private static final ObjectReader STRICT = Payloads.JSON.reader()
+            .with(JsonParser.Feature.STRICT_DUPLICATE_DETECTION);
 
     public OperatorCommand {
         Objects.requireNonNull(verb, "verb");
@@ -77,10 +86,16 @@ public record OperatorCommand(String verb, String target, String operator, Strin
             return Parsed.refused("command body too large: " + body.length + " bytes, at most " + MAX_BYTES);
         }
         JsonNode node;
-        try {
-            node = Payloads.JSON.readTree(new String(body, StandardCharsets.UTF_8));
+        try (JsonParser parser = STRICT.createParser(new String(body, StandardCharsets.UTF_8))) {
+            node = STRICT.readTree(parser);
+            if (node != null && parser.nextToken() != null) {
+                return Parsed.refused("command body goes on after its JSON object (at character "
+                        + (parser.currentTokenLocation().getCharOffset() + 1) + "); send one object");
+            }
         } catch (JsonProcessingException e) {
             return Parsed.refused("command body is not valid JSON: " + e.getOriginalMessage());
+        } catch (java.io.IOException e) {
+            return Parsed.refused("command body is not valid JSON: " + e.getMessage());
         }
         if (node == null || !node.isObject()) {
             return Parsed.refused("command body must be a JSON object such as {\"target\": \"o2-low\", \"operator\":"

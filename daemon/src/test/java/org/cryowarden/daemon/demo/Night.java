@@ -52,11 +52,21 @@ final class Night implements AutoCloseable {
 
     /** Starts the quench night; with {@code ptys} the buses the scenario marks {@code pty: true} use them. */
     static Night start(Path folder, String broker, boolean ptys) throws Exception {
+        return start(folder, broker, ptys, folder.resolve("journal.db"));
+    }
+
+    /** As {@link #start(Path, String, boolean)}, with the journal in the given file. */
+    static Night start(Path folder, String broker, boolean ptys, Path journal) throws Exception {
+        return start(folder, broker, ptys, journal, "harbour-hall-quench-scenario.yaml");
+    }
+
+    /** As {@link #start(Path, String, boolean, Path)}, with another scenario of config-examples. */
+    static Night start(Path folder, String broker, boolean ptys, Path journal, String scenarioFile) throws Exception {
         Path examples = Files.createDirectories(folder.resolve("config-examples"));
-        for (String name : List.of(DemoFiles.SITE, DemoFiles.RULES, "harbour-hall-quench-scenario.yaml")) {
+        for (String name : List.of(DemoFiles.SITE, DemoFiles.RULES, scenarioFile)) {
             Files.copy(Path.of("..", "config-examples", name), examples.resolve(name));
         }
-        Scenario scenario = DemoNight.unpaced(ScenarioReader.read(examples.resolve("harbour-hall-quench-scenario.yaml")));
+        Scenario scenario = DemoNight.unpaced(ScenarioReader.read(examples.resolve(scenarioFile)));
         VirtualTimeSource clock = new VirtualTimeSource(scenario.start());
         DriverCatalog catalog = DriverCatalog.discover(Night.class.getClassLoader(), Optional.empty());
         Path site = examples.resolve(DemoFiles.SITE);
@@ -74,7 +84,7 @@ final class Night implements AutoCloseable {
             String prefix = "cryowarden-test/" + UUID.randomUUID();
             DaemonSettings settings = DaemonSettings.read(configuration.site(), examples)
                     .withBroker(Optional.of(broker), 1883).withPrefix(prefix, "test-" + UUID.randomUUID())
-                    .withJournal(folder.resolve("journal.db")).withApi(Optional.empty(), Optional.empty());
+                    .withJournal(journal).withApi(Optional.empty(), Optional.empty());
             Daemon daemon = Daemon.start(site, rules, configuration, settings, catalog, clock,
                     Daemon.Options.defaults().driven());
             return new Night(prefix, simulator, daemon, endpoints);

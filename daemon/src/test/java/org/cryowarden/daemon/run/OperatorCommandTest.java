@@ -83,6 +83,22 @@ class OperatorCommandTest {
                 .isEqualTo("unknown command 'silence'; expected one of ack, shelve, unshelve, reset, bypass");
     }
 
+    @Test
+    void repeatedKeyIsRefusedSoThatASecondOperatorCannotRideAlong() {
+        // RFC 8259 section 4: names within an object SHOULD be unique; with repeats, parsers disagree on which wins.
+        assertThat(refusal("ack", "{\"target\": \"o2-low\", \"operator\": \"Ada\", \"operator\": \"Eve\"}"))
+                .isEqualTo("command body is not valid JSON: Duplicate field 'operator'");
+        assertThat(refusal("reset", "{\"target\": \"o2-low\", \"target\": \"ventilation\", \"operator\": \"Ada\"}"))
+                .isEqualTo("command body is not valid JSON: Duplicate field 'target'");
+    }
+
+    @Test
+    void secondObjectAfterTheFirstIsRefused() {
+        assertThat(refusal("ack", "{\"target\": \"o2-low\", \"operator\": \"Ada\"} {\"target\": \"x\"}"))
+                .isEqualTo("command body goes on after its JSON object (at character 41); send one object");
+        assertThat(parse("ack", "{\"target\": \"o2-low\", \"operator\": \"Ada\"}\n").error()).isEmpty();
+    }
+
     // ---- helpers ----
 
     private static OperatorCommand.Parsed parse(String verb, String body) {
