@@ -104,7 +104,8 @@ public record LinkTls(Optional<Path> caFile, Optional<Path> clientCert, Optional
         return store;
     }
 
-    static List<Certificate> certificates(Path file) {
+    /** The certificates in a PEM file; the message of the exception names the file and the fault. */
+    public static List<Certificate> certificates(Path file) {
         byte[] bytes = read(file);
         try (InputStream in = new ByteArrayInputStream(bytes)) {
             Collection<? extends Certificate> found = CertificateFactory.getInstance("X.509").generateCertificates(in);
@@ -117,7 +118,8 @@ public record LinkTls(Optional<Path> caFile, Optional<Path> clientCert, Optional
         }
     }
 
-    static PrivateKey privateKey(Path file) {
+    /** The PKCS#8 key in a PEM file; the message of the exception names the file and the fault. */
+    public static PrivateKey privateKey(Path file) {
         String text = new String(read(file), StandardCharsets.US_ASCII);
         Matcher matcher = PEM_KEY.matcher(text);
         if (!matcher.find()) {

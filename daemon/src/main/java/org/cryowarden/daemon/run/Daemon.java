@@ -164,9 +164,9 @@ public final class Daemon implements AutoCloseable {
         String online = Payloads.text(Payloads.status("online", "running", version, Optional.of(started)));
         String will = Payloads.text(Payloads.status("offline", "connection lost", version, Optional.of(started)));
         MqttLinkSettings link = MqttLinkSettings.of(brokerUri, settings.clientId(), settings.prefix() + "/status",
-                online, will);
+                online, will).withTls(settings.tls());
         if (settings.username().isPresent()) {
-            link = link.withCredentials(settings.username().get(), readSecret(settings.passwordFile()));
+            link = link.withCredentials(settings.username().get(), settings.mqttPassword());
         }
         this.bridge = new MqttBridge(new MqttLink(link), settings.prefix(), journal, time,
                 new ReportByException(settings.deadbands(), settings.maxInterval()), loop::command,
@@ -640,17 +640,6 @@ public final class Daemon implements AutoCloseable {
         closeQuietly(journal);
         broker.ifPresent(EmbeddedBroker::close);
         LOG.info("cryowarden stopped");
-    }
-
-    private static String readSecret(Optional<Path> file) {
-        if (file.isEmpty()) {
-            return "";
-        }
-        try {
-            return Files.readString(file.get()).strip();
-        } catch (IOException e) {
-            throw new IllegalArgumentException("cannot read the MQTT password file " + file.get() + ": " + e);
-        }
     }
 
     private static void closeQuietly(Journal journal) {
