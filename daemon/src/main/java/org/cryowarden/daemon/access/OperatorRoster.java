@@ -18,9 +18,10 @@ import org.cryowarden.rules.model.SiteDef;
  *   grace: {role: supervisor, token_hash: "sha256:..."}
  *   alan:  {role: viewer}
  * </pre>
- * A site without the section has no one who may command: every command is refused with a reason that says to add
- * it. That is the safe reading of an old site file, and the refusal is journaled like any other. The token hash is
- * optional; an operator without one cannot use the HTTP API but may still be named in an MQTT command.
+ * A site without the section keeps the older rules ({@link #legacy()}): HTTP writes need the single token of
+ * {@code api.token_file}, and MQTT commands are as trusted as the broker's ACL on the command topic; the daemon
+ * warns at startup. Listing operators turns the checks on for both paths. The token hash is optional; an operator
+ * without one cannot use the HTTP API but may still be named in an MQTT command.
  */
 public final class OperatorRoster {
 
@@ -41,8 +42,8 @@ public final class OperatorRoster {
         return new OperatorRoster(Optional.of(byId));
     }
 
-    /** The roster of a site without an operators section: commands are refused. */
-    public static OperatorRoster none() {
+    /** The roster of a site without an operators section: no role check (see the class comment). */
+    public static OperatorRoster legacy() {
         return new OperatorRoster(Optional.empty());
     }
 
@@ -54,7 +55,7 @@ public final class OperatorRoster {
     public static OperatorRoster read(SiteDef site) throws ConfigException {
         ConfigNode.Mapping section = site.sections().get("operators");
         if (section == null) {
-            return none();
+            return legacy();
         }
         List<ConfigProblem> problems = new ArrayList<>();
         Map<String, Operator> byId = new LinkedHashMap<>();
@@ -109,11 +110,10 @@ public final class OperatorRoster {
                 .filter(s -> !s.isNull());
     }
 
-    /** Why {@code operator} may not give {@code verb}, or empty when the roster allows it. */
+    /** Why {@code operator} may not give {@code verb}, or empty when the roster allows it (or is {@link #legacy}). */
     public Optional<String> refusal(String verb, String operator) {
         if (operators.isEmpty()) {
-            return Optional.of("no operators section in the site file, so no one may give commands; list the"
-                    + " operators and their roles there");
+            return Optional.empty();
         }
         Operator known = operators.get().get(operator);
         if (known == null) {
@@ -144,7 +144,7 @@ public final class OperatorRoster {
         return found;
     }
 
-    /** Whether the site lists operators at all. */
+    /** Whether the site lists operators at all; false for {@link #legacy()}. */
     public boolean configured() {
         return operators.isPresent();
     }

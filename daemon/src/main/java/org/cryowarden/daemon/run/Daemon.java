@@ -169,7 +169,7 @@ public final class Daemon implements AutoCloseable {
             link = link.withCredentials(settings.username().get(), settings.mqttPassword());
         }
         this.bridge = new MqttBridge(new MqttLink(link), settings.prefix(), journal, time,
-                new ReportByException(settings.deadbands(), settings.maxInterval()), loop::command,
+                new ReportByException(settings.deadbands(), settings.maxInterval()), this::command,
                 this::commandRefused);
         bridgeRef.bridge = bridge;
         journalSink.addListener(bridge);
@@ -254,6 +254,10 @@ public final class Daemon implements AutoCloseable {
         LOG.info("cryowarden running: site '{}', {} buses, {} channels, {} rules; MQTT {} under {}/; journal {}",
                 configuration.site().name(), pollers.size(), configuration.channelCount(),
                 configuration.rules().rules().size(), brokerUri, settings.prefix(), journal.file());
+        if (!settings.operators().configured()) {
+            LOG.warn("no operators section in the site file: commands are not checked against roles (HTTP writes"
+                    + " need the api token_file, MQTT commands only the broker's ACL); list the operators to check them");
+        }
     }
 
     private void restore() throws StartException {
@@ -397,7 +401,15 @@ public final class Daemon implements AutoCloseable {
         });
     }
 
+    /**
+     * Gives a command to the engine once the site's operators section allows its operator to give it; a refusal is
+     * returned like the engine's, for the caller to reply with and journal.
+     */
     public CompletableFuture<Optional<String>> command(OperatorCommand command) {
+        Optional<String> refusal = settings.operators().refusal(command.verb(), command.operator());
+        if (refusal.isPresent()) {
+            return CompletableFuture.completedFuture(refusal);
+        }
         return loop.command(command);
     }
 

@@ -10,6 +10,7 @@ import java.util.List;
 import java.util.Map;
 import java.util.Optional;
 import org.cryowarden.daemon.history.HistorySettings;
+import org.cryowarden.daemon.access.OperatorRoster;
 import org.cryowarden.daemon.mqtt.LinkTls;
 import org.cryowarden.rules.ConfigException;
 import org.cryowarden.rules.ConfigProblem;
@@ -38,6 +39,7 @@ import org.cryowarden.rules.model.SiteDef;
  * @param history      how raw history is flushed and kept
  * @param passwordEnv  an environment variable holding the MQTT password, instead of {@code passwordFile}
  * @param tls          certificates for an {@code ssl://} broker, checked (present, readable, PEM) when read
+ * @param operators    who may give which command, from the {@code operators} section
  */
 public record DaemonSettings(
         Optional<String> broker,
@@ -54,7 +56,8 @@ public record DaemonSettings(
         Optional<Path> tokenFile,
         HistorySettings history,
         Optional<String> passwordEnv,
-        LinkTls tls) {
+        LinkTls tls,
+        OperatorRoster operators) {
 
     public static final int DEFAULT_MQTT_PORT = 1883;
     public static final int DEFAULT_API_PORT = 8741;
@@ -161,11 +164,17 @@ public record DaemonSettings(
         Optional<Integer> apiPort = api.bool("enabled").orElse(true)
                 ? Optional.of(api.integer("port", 0, 65535).orElse(DEFAULT_API_PORT)) : Optional.empty();
         Optional<Path> tokenFile = api.text("token_file").map(p -> siteFolder.resolve(p));
+        OperatorRoster operators = OperatorRoster.legacy();
+        try {
+            operators = OperatorRoster.read(site);
+        } catch (ConfigException e) {
+            problems.addAll(e.problems());
+        }
         if (!problems.isEmpty()) {
             throw new ConfigException(problems);
         }
         return new DaemonSettings(broker, port, prefix, clientId, username, passwordFile, maxInterval, deadbands,
-                journalPath, retention, apiPort, tokenFile, history, passwordEnv, tls);
+                journalPath, retention, apiPort, tokenFile, history, passwordEnv, tls, operators);
     }
 
     /**
@@ -230,32 +239,37 @@ public record DaemonSettings(
 
     public DaemonSettings withBroker(Optional<String> uri, int port) {
         return new DaemonSettings(uri, port, prefix, clientId, username, passwordFile, maxInterval, deadbands,
-                journalPath, retention, apiPort, tokenFile, history, passwordEnv, tls);
+                journalPath, retention, apiPort, tokenFile, history, passwordEnv, tls, operators);
     }
 
     public DaemonSettings withJournal(Path path) {
         return new DaemonSettings(broker, embeddedPort, prefix, clientId, username, passwordFile, maxInterval,
-                deadbands, path, retention, apiPort, tokenFile, history, passwordEnv, tls);
+                deadbands, path, retention, apiPort, tokenFile, history, passwordEnv, tls, operators);
     }
 
     public DaemonSettings withPrefix(String topicPrefix, String client) {
         return new DaemonSettings(broker, embeddedPort, topicPrefix, client, username, passwordFile, maxInterval,
-                deadbands, journalPath, retention, apiPort, tokenFile, history, passwordEnv, tls);
+                deadbands, journalPath, retention, apiPort, tokenFile, history, passwordEnv, tls, operators);
     }
 
     public DaemonSettings withApi(Optional<Integer> port, Optional<Path> token) {
         return new DaemonSettings(broker, embeddedPort, prefix, clientId, username, passwordFile, maxInterval,
-                deadbands, journalPath, retention, port, token, history, passwordEnv, tls);
+                deadbands, journalPath, retention, port, token, history, passwordEnv, tls, operators);
+    }
+
+    public DaemonSettings withOperators(OperatorRoster roster) {
+        return new DaemonSettings(broker, embeddedPort, prefix, clientId, username, passwordFile, maxInterval,
+                deadbands, journalPath, retention, apiPort, tokenFile, history, passwordEnv, tls, roster);
     }
 
     public DaemonSettings withMaxInterval(Duration interval) {
         return new DaemonSettings(broker, embeddedPort, prefix, clientId, username, passwordFile, interval,
-                deadbands, journalPath, retention, apiPort, tokenFile, history, passwordEnv, tls);
+                deadbands, journalPath, retention, apiPort, tokenFile, history, passwordEnv, tls, operators);
     }
 
     public DaemonSettings withHistory(HistorySettings settings) {
         return new DaemonSettings(broker, embeddedPort, prefix, clientId, username, passwordFile, maxInterval,
-                deadbands, journalPath, retention, apiPort, tokenFile, settings, passwordEnv, tls);
+                deadbands, journalPath, retention, apiPort, tokenFile, settings, passwordEnv, tls, operators);
     }
 
     private record DeadbandTarget(org.cryowarden.rules.Unit unit) {

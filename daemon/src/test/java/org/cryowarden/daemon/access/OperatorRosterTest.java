@@ -53,10 +53,10 @@ class OperatorRosterTest {
     }
 
     @Test
-    void siteWithoutOperatorsRefusesEveryCommandWithTheFix() {
-        assertThat(OperatorRoster.none().refusal("ack", "ada")).hasValueSatisfying(r -> assertThat(r)
-                .contains("no operators section in the site file"));
-        assertThat(OperatorRoster.none().identify(adaToken)).isEmpty();
+    void siteWithoutOperatorsKeepsTheOlderRulesAndKnowsNoToken() {
+        assertThat(OperatorRoster.legacy().configured()).isFalse();
+        assertThat(OperatorRoster.legacy().refusal("reset", "ada")).isEmpty();
+        assertThat(OperatorRoster.legacy().identify(adaToken)).isEmpty();
     }
 
     @Test

@@ -52,6 +52,12 @@ final class Night implements AutoCloseable {
 
     /** Starts the quench night; with {@code ptys} the buses the scenario marks {@code pty: true} use them. */
     static Night start(Path folder, String broker, boolean ptys) throws Exception {
+        return start(folder, broker, ptys, java.util.function.UnaryOperator.identity());
+    }
+
+    /** As {@link #start(Path, String, boolean)}, with the daemon's settings changed by {@code adjust}. */
+    static Night start(Path folder, String broker, boolean ptys,
+            java.util.function.UnaryOperator<DaemonSettings> adjust) throws Exception {
         Path examples = Files.createDirectories(folder.resolve("config-examples"));
         for (String name : List.of(DemoFiles.SITE, DemoFiles.RULES, "harbour-hall-quench-scenario.yaml")) {
             Files.copy(Path.of("..", "config-examples", name), examples.resolve(name));
@@ -72,9 +78,9 @@ final class Night implements AutoCloseable {
                 configuration = overPtys(configuration, endpoints);
             }
             String prefix = "cryowarden-test/" + UUID.randomUUID();
-            DaemonSettings settings = DaemonSettings.read(configuration.site(), examples)
+            DaemonSettings settings = adjust.apply(DaemonSettings.read(configuration.site(), examples)
                     .withBroker(Optional.of(broker), 1883).withPrefix(prefix, "test-" + UUID.randomUUID())
-                    .withJournal(folder.resolve("journal.db")).withApi(Optional.empty(), Optional.empty());
+                    .withJournal(folder.resolve("journal.db")).withApi(Optional.empty(), Optional.empty()));
             Daemon daemon = Daemon.start(site, rules, configuration, settings, catalog, clock,
                     Daemon.Options.defaults().driven());
             return new Night(prefix, simulator, daemon, endpoints);
