@@ -29,6 +29,8 @@ import java.util.concurrent.TimeUnit;
 import org.cryowarden.daemon.journal.JournalEvent;
 import org.cryowarden.daemon.journal.JournalException;
 import org.cryowarden.daemon.run.Daemon;
+import org.cryowarden.daemon.access.OperatorRoster;
+import org.cryowarden.daemon.access.Role;
 import org.cryowarden.daemon.run.OperatorCommand;
 import org.cryowarden.daemon.run.Payloads;
 import org.cryowarden.rules.DurationSyntax;
@@ -175,10 +177,16 @@ public final class ApiServer implements AutoCloseable {
             send(exchange, 405, error("method " + method + " is not allowed"));
             return;
         }
-        if (!authorised(exchange)) {
+        Optional<Sender> sender = authorised(exchange);
+        if (sender.isEmpty()) {
             return;
         }
         if (path.equals("/api/reload")) {
+            Optional<OperatorRoster.Operator> operator = sender.get().operator();
+            if (operator.isPresent() && operator.get().role() != Role.SUPERVISOR) {
+                send(exchange, 403, error("reload needs a supervisor; " + operator.get().id() + " is not one"));
+                return;
+            }
             List<String> problems = daemon.reload();
             ObjectNode body = Payloads.reply(problems.isEmpty() ? Optional.empty()
                     : Optional.of("the new configuration has " + problems.size() + " errors; the running one stays"));
@@ -197,6 +205,15 @@ public final class ApiServer implements AutoCloseable {
                 return;
             }
             OperatorCommand command = parsed.command().orElseThrow();
+            Optional<OperatorRoster.Operator> operator = sender.get().operator();
+            if (operator.isPresent() && !operator.get().id().equals(command.operator())) {
+                String reason = "the command names operator '" + command.operator() + "' but the token is "
+                        + operator.get().id() + "'s";
+                LOG.warn("command {} over HTTP refused: {}", verb, reason);
+                daemon.commandRefused("http", verb, Optional.of(command), reason);
+                send(exchange, 403, Payloads.reply(Optional.of(reason)));
+                return;
+            }
             Optional<String> refusal = daemon.command(command).get(10, TimeUnit.SECONDS);
             LOG.info("command {} {} by {} over HTTP: {}", verb, command.target(), command.operator(),
                     refusal.map(r -> "refused: " + r).orElse("done"));
@@ -207,19 +224,38 @@ public final class ApiServer implements AutoCloseable {
         send(exchange, 404, error("no such resource: POST " + path));
     }
 
-    private boolean authorised(HttpExchange exchange) throws IOException {
-        if (token.isEmpty()) {
-            send(exchange, 403, error("writes are off: the site file names no api token_file"));
-            return false;
-        }
+    /**
+     * Who sent the request, or empty after answering 401/403. With an operators section the bearer token must be
+     * one of theirs (compared by hash); without one it must be the single token of {@code api.token_file}, and the
+     * sender is not known by name.
+     */
+    private Optional<Sender> authorised(HttpExchange exchange) throws IOException {
         String header = Optional.ofNullable(exchange.getRequestHeaders().getFirst("Authorization")).orElse("");
-        byte[] given = header.startsWith("Bearer ") ? header.substring(7).strip().getBytes(StandardCharsets.UTF_8)
-                : new byte[0];
-        if (!MessageDigest.isEqual(given, token.get())) {
-            send(exchange, 401, error("missing or wrong token: send Authorization: Bearer TOKEN"));
-            return false;
+        String presented = header.startsWith("Bearer ") ? header.substring(7).strip() : "";
+        OperatorRoster roster = daemon.settings().operators();
+        if (roster.configured()) {
+            Optional<OperatorRoster.Operator> operator = presented.isEmpty() ? Optional.empty()
+                    : roster.identify(presented);
+            if (operator.isEmpty()) {
+                send(exchange, 401, error("missing or unknown token: send Authorization: Bearer TOKEN, the token"
+                        + " made for you by `cryowarden token new`"));
+                return Optional.empty();
+            }
+            return Optional.of(new Sender(operator));
         }
-        return true;
+        if (token.isEmpty()) {
+            send(exchange, 403, error("writes are off: the site file names no api token_file and no operators"));
+            return Optional.empty();
+        }
+        if (!MessageDigest.isEqual(presented.getBytes(StandardCharsets.UTF_8), token.get())) {
+            send(exchange, 401, error("missing or wrong token: send Authorization: Bearer TOKEN"));
+            return Optional.empty();
+        }
+        return Optional.of(new Sender(Optional.empty()));
+    }
+
+    /** The sender of an authorised write: the operator when the site lists operators. */
+    private record Sender(Optional<OperatorRoster.Operator> operator) {
     }
 
     private ArrayNode channels() {

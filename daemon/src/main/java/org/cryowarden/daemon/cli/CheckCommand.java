@@ -6,6 +6,7 @@ import java.util.ArrayList;
 import java.util.List;
 import java.util.concurrent.Callable;
 import org.cryowarden.daemon.run.NightSettings;
+import org.cryowarden.daemon.run.DaemonSettings;
 import org.cryowarden.rules.ConfigException;
 import org.cryowarden.rules.ConfigProblem;
 import org.cryowarden.rules.config.Configuration;
@@ -83,6 +84,18 @@ final class CheckCommand implements Callable<Integer> {
         Configuration configuration;
         try {
             configuration = ConfigurationLoader.load(site, rules, drivers());
+        } catch (ConfigException e) {
+            for (ConfigProblem problem : e.problems()) {
+                err.println(problem);
+            }
+            int count = e.problems().size();
+            err.println(count + (count == 1 ? " error" : " errors") + " found; nothing was started");
+            err.flush();
+            return INVALID;
+        }
+        try {
+            // The daemon's own sections (mqtt, journal, api): TLS files, password files and the like.
+            DaemonSettings.read(configuration.site(), RunCommand.folder(site));
         } catch (ConfigException e) {
             for (ConfigProblem problem : e.problems()) {
                 err.println(problem);

@@ -40,6 +40,7 @@ public final class Main implements Runnable {
         line.addSubcommand(new picocli.AutoComplete.GenerateCompletion());
         line.addSubcommand(new ProbeCommand());
         line.addSubcommand(new PluginsCommand());
+        line.addSubcommand(new TokenCommand());
         line.addSubcommand(new SimulateCommand());
         line.addSubcommand(new ReportCommand());
         line.addSubcommand(new BenchCommand());

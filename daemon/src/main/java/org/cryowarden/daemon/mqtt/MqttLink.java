@@ -115,15 +115,16 @@ public final class MqttLink implements AutoCloseable {
     /**
      * Builds the link; nothing connects until {@link #start()}.
      *
-     * @throws IllegalArgumentException when Paho refuses the client id or URI
+     * @throws IllegalArgumentException when Paho refuses the client id or URI, or a TLS file is missing or bad
      */
     public MqttLink(MqttLinkSettings settings) {
         this.settings = Objects.requireNonNull(settings, "settings");
+        this.options = connectionOptions(settings);
         this.control = scheduler(1, new LinkThreads(settings.clientId(), "control"));
         this.callbacks = Executors.newSingleThreadExecutor(new LinkThreads(settings.clientId(), "callbacks"));
         this.pahoPool = scheduler(PAHO_THREADS, new LinkThreads(settings.clientId(), "paho"));
         try {
-            this.client = new MqttAsyncClient(settings.serverUri(), settings.clientId(), new MemoryPersistence(),
+            this.client = new MqttAsyncClient(settings.pahoUri(), settings.clientId(), new MemoryPersistence(),
                     null, pahoPool);
         } catch (MqttException e) {
             shutdownExecutors(Duration.ofSeconds(1));
@@ -131,7 +132,6 @@ public final class MqttLink implements AutoCloseable {
                     + describe(e), e);
         }
         this.client.setCallback(new PahoCallbacks());
-        this.options = connectionOptions(settings);
     }
 
     /** Adds a listener told about connects and connection losses; add before {@link #start()} to miss none. */
@@ -734,7 +734,12 @@ public final class MqttLink implements AutoCloseable {
         options.setAutomaticReconnect(false);
         options.setConnectionTimeout((int) settings.connectTimeout().toSeconds());
         options.setKeepAliveInterval((int) settings.keepAlive().toSeconds());
-        options.setSocketFactory(new LinkSocketFactory());
+        if (settings.secure()) {
+            options.setSocketFactory(settings.tls().socketFactory());
+            options.setHttpsHostnameVerificationEnabled(true);
+        } else {
+            options.setSocketFactory(new LinkSocketFactory());
+        }
         MqttMessage will = new MqttMessage(settings.willPayload());
         will.setQos(1);
         will.setRetained(true);

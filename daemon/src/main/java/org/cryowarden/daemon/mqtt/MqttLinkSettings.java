@@ -4,6 +4,7 @@ import java.net.URI;
 import java.net.URISyntaxException;
 import java.nio.charset.StandardCharsets;
 import java.time.Duration;
+import java.util.List;
 import java.util.Objects;
 import java.util.Optional;
 import org.eclipse.paho.mqttv5.common.util.MqttTopicValidator;
@@ -11,7 +12,7 @@ import org.eclipse.paho.mqttv5.common.util.MqttTopicValidator;
 /**
  * How an {@link MqttLink} connects. Start from {@link #of} and adjust with the {@code with...} methods.
  *
- * @param serverUri      {@code tcp://host:port}
+ * @param serverUri      {@code tcp://host:port}, or {@code ssl://host:port} / {@code mqtts://host:port} for TLS
  * @param clientId       MQTT client identifier; unique per daemon on the broker
  * @param statusTopic    where the online status and the last will are published, retained
  * @param onlinePayload  published retained on {@code statusTopic} after every connect
@@ -24,15 +25,17 @@ import org.eclipse.paho.mqttv5.common.util.MqttTopicValidator;
  * @param keepAlive      MQTT keep-alive interval
  * @param minRetryDelay  first delay between connect attempts
  * @param maxRetryDelay  longest delay between connect attempts
+ * @param tls            certificates for an {@code ssl://} broker; ignored for {@code tcp://}
  */
 public record MqttLinkSettings(String serverUri, String clientId, String statusTopic,
                                byte[] onlinePayload, byte[] willPayload,
                                Optional<String> username, Optional<String> password,
                                int maxInFlight, int queueCapacity,
                                Duration connectTimeout, Duration keepAlive,
-                               Duration minRetryDelay, Duration maxRetryDelay) {
+                               Duration minRetryDelay, Duration maxRetryDelay, LinkTls tls) {
 
     public MqttLinkSettings {
+        Objects.requireNonNull(tls, "tls");
         Objects.requireNonNull(serverUri, "serverUri");
         Objects.requireNonNull(clientId, "clientId");
         Objects.requireNonNull(statusTopic, "statusTopic");
@@ -74,28 +77,46 @@ public record MqttLinkSettings(String serverUri, String clientId, String statusT
         return new MqttLinkSettings(serverUri, clientId, statusTopic,
                 onlinePayload.getBytes(StandardCharsets.UTF_8), willPayload.getBytes(StandardCharsets.UTF_8),
                 Optional.empty(), Optional.empty(), 32, 10_000,
-                Duration.ofSeconds(10), Duration.ofSeconds(30), Duration.ofMillis(500), Duration.ofSeconds(30));
+                Duration.ofSeconds(10), Duration.ofSeconds(30), Duration.ofMillis(500), Duration.ofSeconds(30),
+                LinkTls.defaults());
     }
 
     public MqttLinkSettings withCredentials(String user, String secret) {
         return new MqttLinkSettings(serverUri, clientId, statusTopic, onlinePayload, willPayload,
                 Optional.of(user), Optional.of(secret), maxInFlight, queueCapacity,
-                connectTimeout, keepAlive, minRetryDelay, maxRetryDelay);
+                connectTimeout, keepAlive, minRetryDelay, maxRetryDelay, tls);
     }
 
     public MqttLinkSettings withWindow(int inFlight, int queued) {
         return new MqttLinkSettings(serverUri, clientId, statusTopic, onlinePayload, willPayload,
-                username, password, inFlight, queued, connectTimeout, keepAlive, minRetryDelay, maxRetryDelay);
+                username, password, inFlight, queued, connectTimeout, keepAlive, minRetryDelay, maxRetryDelay, tls);
     }
 
     public MqttLinkSettings withRetryDelays(Duration min, Duration max) {
         return new MqttLinkSettings(serverUri, clientId, statusTopic, onlinePayload, willPayload,
-                username, password, maxInFlight, queueCapacity, connectTimeout, keepAlive, min, max);
+                username, password, maxInFlight, queueCapacity, connectTimeout, keepAlive, min, max, tls);
     }
 
     public MqttLinkSettings withTimeouts(Duration connect, Duration keepAliveInterval) {
         return new MqttLinkSettings(serverUri, clientId, statusTopic, onlinePayload, willPayload,
-                username, password, maxInFlight, queueCapacity, connect, keepAliveInterval, minRetryDelay, maxRetryDelay);
+                username, password, maxInFlight, queueCapacity, connect, keepAliveInterval, minRetryDelay, maxRetryDelay, tls);
+    }
+
+    /** TLS certificates for an {@code ssl://} or {@code mqtts://} broker. */
+    public MqttLinkSettings withTls(LinkTls certificates) {
+        return new MqttLinkSettings(serverUri, clientId, statusTopic, onlinePayload, willPayload,
+                username, password, maxInFlight, queueCapacity, connectTimeout, keepAlive, minRetryDelay,
+                maxRetryDelay, certificates);
+    }
+
+    /** Whether the link speaks TLS. */
+    public boolean secure() {
+        return !serverUri.startsWith("tcp:");
+    }
+
+    /** The address in the form Paho takes ({@code mqtts} becomes {@code ssl}). */
+    String pahoUri() {
+        return serverUri.startsWith("mqtts:") ? "ssl:" + serverUri.substring("mqtts:".length()) : serverUri;
     }
 
     @Override
@@ -116,6 +137,8 @@ public record MqttLinkSettings(String serverUri, String clientId, String statusT
     public String toString() {
         return "MqttLinkSettings[" + serverUri + ", client " + clientId + ", status " + statusTopic
                 + username.map(u -> ", user " + u).orElse("") + (password.isPresent() ? ", password set" : "")
+                + (secure() ? ", TLS" + tls.caFile().map(f -> " CA " + f).orElse("")
+                        + tls.clientCert().map(f -> " client " + f).orElse("") : "")
                 + ", " + maxInFlight + " in flight, " + queueCapacity + " queued]";
     }
 
@@ -125,12 +148,11 @@ public record MqttLinkSettings(String serverUri, String clientId, String statusT
             uri = new URI(serverUri);
         } catch (URISyntaxException e) {
             throw new IllegalArgumentException("MQTT broker address is not a URI: " + serverUri
-                    + " (expected tcp://HOST:PORT)", e);
+                    + " (expected tcp://HOST:PORT, or ssl://HOST:PORT for TLS)", e);
         }
-        if (!"tcp".equals(uri.getScheme()) || uri.getHost() == null) {
-            throw new IllegalArgumentException("MQTT broker address must look like tcp://HOST:PORT, got " + serverUri
-                    + (uri.getScheme() != null && uri.getScheme().startsWith("ssl")
-                    ? " (TLS is not supported by this link yet)" : ""));
+        if (!List.of("tcp", "ssl", "mqtts").contains(String.valueOf(uri.getScheme())) || uri.getHost() == null) {
+            throw new IllegalArgumentException("MQTT broker address must look like tcp://HOST:PORT, or ssl://HOST:PORT"
+                    + " or mqtts://HOST:PORT for TLS, got " + serverUri);
         }
     }
 }

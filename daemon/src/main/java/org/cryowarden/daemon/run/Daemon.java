@@ -172,9 +172,9 @@ public final class Daemon implements AutoCloseable {
         String online = Payloads.text(Payloads.status("online", "running", version, Optional.of(started)));
         String will = Payloads.text(Payloads.status("offline", "connection lost", version, Optional.of(started)));
         MqttLinkSettings link = MqttLinkSettings.of(brokerUri, settings.clientId(), settings.prefix() + "/status",
-                online, will);
+                online, will).withTls(settings.tls());
         if (settings.username().isPresent()) {
-            link = link.withCredentials(settings.username().get(), readSecret(settings.passwordFile()));
+            link = link.withCredentials(settings.username().get(), settings.mqttPassword());
         }
         this.bridge = new MqttBridge(new MqttLink(link), settings.prefix(), journal, time,
                 new ReportByException(settings.deadbands(), settings.maxInterval()), this::command,
@@ -302,6 +302,10 @@ public final class Daemon implements AutoCloseable {
         LOG.info("cryowarden running: site '{}', {} buses, {} channels, {} rules; MQTT {} under {}/; journal {}",
                 configuration.site().name(), pollers.size(), configuration.channelCount(),
                 configuration.rules().rules().size(), brokerUri, settings.prefix(), journal.file());
+        if (!settings.operators().configured()) {
+            LOG.warn("no operators section in the site file: commands are not checked against roles (HTTP writes"
+                    + " need the api token_file, MQTT commands only the broker's ACL); list the operators to check them");
+        }
     }
 
     private void restore() throws StartException {
@@ -448,13 +452,18 @@ public final class Daemon implements AutoCloseable {
     }
 
     /**
-     * Runs an operator's command; completes with the refusal, or empty once the command and what it changed are
+     * Runs an operator's command once the site's operators section allows its operator to give it; completes with
+     * the refusal (for the caller to reply with and journal), or empty once the command and what it changed are
      * recorded in the journal (so that a reply of "done" survives a kill -9).
      */
     public CompletableFuture<Optional<String>> command(OperatorCommand command) {
-        return loop.command(command).thenCompose(refusal -> refusal.isPresent()
-                ? CompletableFuture.completedFuture(refusal)
-                : journalSink.recordedSoFar().thenApply(recorded -> refusal));
+        Optional<String> refusal = settings.operators().refusal(command.verb(), command.operator());
+        if (refusal.isPresent()) {
+            return CompletableFuture.completedFuture(refusal);
+        }
+        return loop.command(command).thenCompose(refused -> refused.isPresent()
+                ? CompletableFuture.completedFuture(refused)
+                : journalSink.recordedSoFar().thenApply(recorded -> refused));
     }
 
     /**
@@ -773,17 +782,6 @@ public final class Daemon implements AutoCloseable {
         @Override
         public void health(boolean healthy) {
             contact.ifPresent(c -> c.health(healthy));
-        }
-    }
-
-    private static String readSecret(Optional<Path> file) {
-        if (file.isEmpty()) {
-            return "";
-        }
-        try {
-            return Files.readString(file.get()).strip();
-        } catch (IOException e) {
-            throw new IllegalArgumentException("cannot read the MQTT password file " + file.get() + ": " + e);
         }
     }
 

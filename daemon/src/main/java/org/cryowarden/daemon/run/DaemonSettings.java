@@ -1,5 +1,7 @@
 package org.cryowarden.daemon.run;
 
+import java.io.IOException;
+import java.nio.file.Files;
 import java.nio.file.Path;
 import java.time.Duration;
 import java.util.ArrayList;
@@ -8,6 +10,8 @@ import java.util.List;
 import java.util.Map;
 import java.util.Optional;
 import org.cryowarden.daemon.history.HistorySettings;
+import org.cryowarden.daemon.access.OperatorRoster;
+import org.cryowarden.daemon.mqtt.LinkTls;
 import org.cryowarden.rules.ConfigException;
 import org.cryowarden.rules.ConfigProblem;
 import org.cryowarden.rules.DurationSyntax;
@@ -21,8 +25,9 @@ import org.cryowarden.rules.model.SiteDef;
  * The daemon's own sections of the site file ({@code mqtt}, {@code journal}, {@code api}), read with positions so
  * that a mistake there stops startup with {@code FILE:LINE:COLUMN} like any other:
  * <pre>
- * mqtt:    {broker: embedded | tcp://HOST:PORT, port: 1883, prefix: cryowarden/harbour-hall, client_id: ...,
- *           username: ..., password_file: FILE, max_interval: 5min, deadbands: {CHANNEL: "0.05 %vol"}}
+ * mqtt:    {broker: embedded | tcp://HOST:PORT | ssl://HOST:PORT, port: 1883, prefix: cryowarden/harbour-hall,
+ *           client_id: ..., username: ..., password_file: FILE | password_env: VARIABLE,
+ *           ca_file: PEM, client_cert: PEM, client_key: PEM, max_interval: 5min, deadbands: {CHANNEL: "0.05 %vol"}}
  * journal: {path: FILE, retention: 90d, history_flush: 10s, history_retention: 14d}
  * api:     {port: 8741, token_file: FILE}
  * </pre>
@@ -32,6 +37,9 @@ import org.cryowarden.rules.model.SiteDef;
  * @param embeddedPort the embedded broker's port on 127.0.0.1
  * @param apiPort      the HTTP API's port on 127.0.0.1; 0 picks a free one, empty turns the API off
  * @param history      how raw history is flushed and kept
+ * @param passwordEnv  an environment variable holding the MQTT password, instead of {@code passwordFile}
+ * @param tls          certificates for an {@code ssl://} broker, checked (present, readable, PEM) when read
+ * @param operators    who may give which command, from the {@code operators} section
  */
 public record DaemonSettings(
         Optional<String> broker,
@@ -46,7 +54,10 @@ public record DaemonSettings(
         Duration retention,
         Optional<Integer> apiPort,
         Optional<Path> tokenFile,
-        HistorySettings history) {
+        HistorySettings history,
+        Optional<String> passwordEnv,
+        LinkTls tls,
+        OperatorRoster operators) {
 
     public static final int DEFAULT_MQTT_PORT = 1883;
     public static final int DEFAULT_API_PORT = 8741;
@@ -70,13 +81,13 @@ public record DaemonSettings(
     public static DaemonSettings read(SiteDef site, Path siteFolder) throws ConfigException {
         List<ConfigProblem> problems = new ArrayList<>();
         Section mqtt = new Section("mqtt", site.sections().get("mqtt"), problems);
-        mqtt.allowOnly("broker", "port", "prefix", "client_id", "username", "password_file", "max_interval",
-                "deadbands");
+        mqtt.allowOnly("broker", "port", "prefix", "client_id", "username", "password_file", "password_env",
+                "ca_file", "client_cert", "client_key", "max_interval", "deadbands");
         Optional<String> broker = mqtt.text("broker").filter(b -> !b.equals("embedded"));
         broker.ifPresent(uri -> {
-            if (!uri.matches("tcp://[^:/]+:\\d{1,5}")) {
-                problems.add(new ConfigProblem(mqtt.position("broker"), "mqtt broker must be 'embedded' or"
-                        + " tcp://HOST:PORT, got '" + uri + "'"));
+            if (!uri.matches("(tcp|ssl|mqtts)://[^:/]+:\\d{1,5}")) {
+                problems.add(new ConfigProblem(mqtt.position("broker"), "mqtt broker must be 'embedded',"
+                        + " tcp://HOST:PORT, or ssl://HOST:PORT (or mqtts://) for TLS, got '" + uri + "'"));
             }
         });
         int port = mqtt.integer("port", 1, 65535).orElse(DEFAULT_MQTT_PORT);
@@ -90,6 +101,22 @@ public record DaemonSettings(
         String clientId = mqtt.text("client_id").orElse("cryowarden-" + slug);
         Optional<String> username = mqtt.text("username");
         Optional<Path> passwordFile = mqtt.text("password_file").map(p -> siteFolder.resolve(p));
+        Optional<String> passwordEnv = mqtt.text("password_env");
+        passwordFile.ifPresent(file -> {
+            if (!Files.isRegularFile(file) || !Files.isReadable(file)) {
+                problems.add(new ConfigProblem(mqtt.position("password_file"), "mqtt password_file " + file
+                        + " is missing or unreadable"));
+            }
+        });
+        if (passwordFile.isPresent() && passwordEnv.isPresent()) {
+            problems.add(new ConfigProblem(mqtt.position("password_env"), "mqtt takes password_file or"
+                    + " password_env, not both"));
+        }
+        if ((passwordFile.isPresent() || passwordEnv.isPresent()) && username.isEmpty()) {
+            problems.add(new ConfigProblem(mqtt.position(passwordFile.isPresent() ? "password_file" : "password_env"),
+                    "mqtt password needs a username"));
+        }
+        LinkTls tls = tls(mqtt, siteFolder, broker, problems);
         Duration maxInterval = mqtt.duration("max_interval").orElse(Duration.ofMinutes(5));
         Map<String, Double> deadbands = new LinkedHashMap<>();
         mqtt.mapping("deadbands").ifPresent(map -> {
@@ -137,41 +164,112 @@ public record DaemonSettings(
         Optional<Integer> apiPort = api.bool("enabled").orElse(true)
                 ? Optional.of(api.integer("port", 0, 65535).orElse(DEFAULT_API_PORT)) : Optional.empty();
         Optional<Path> tokenFile = api.text("token_file").map(p -> siteFolder.resolve(p));
+        OperatorRoster operators = OperatorRoster.legacy();
+        try {
+            operators = OperatorRoster.read(site);
+        } catch (ConfigException e) {
+            problems.addAll(e.problems());
+        }
         if (!problems.isEmpty()) {
             throw new ConfigException(problems);
         }
         return new DaemonSettings(broker, port, prefix, clientId, username, passwordFile, maxInterval, deadbands,
-                journalPath, retention, apiPort, tokenFile, history);
+                journalPath, retention, apiPort, tokenFile, history, passwordEnv, tls, operators);
+    }
+
+    /**
+     * The MQTT password from {@code password_file} (first line, trimmed) or {@code password_env}; empty when
+     * neither is set. Never logged.
+     *
+     * @throws IllegalArgumentException when the file cannot be read or the variable is unset
+     */
+    public String mqttPassword() {
+        if (passwordEnv.isPresent()) {
+            String value = System.getenv(passwordEnv.get());
+            if (value == null) {
+                throw new IllegalArgumentException("the MQTT password variable " + passwordEnv.get() + " is not set");
+            }
+            return value.strip();
+        }
+        if (passwordFile.isEmpty()) {
+            return "";
+        }
+        try {
+            return Files.readString(passwordFile.get()).strip();
+        } catch (IOException e) {
+            throw new IllegalArgumentException("cannot read the MQTT password file " + passwordFile.get() + ": "
+                    + e.getMessage());
+        }
+    }
+
+    /** The TLS keys, each file checked now so that {@code check} names a bad one with its position. */
+    private static LinkTls tls(Section mqtt, Path siteFolder, Optional<String> broker, List<ConfigProblem> problems) {
+        Optional<Path> ca = pemFile(mqtt, "ca_file", siteFolder, problems, LinkTls::certificates);
+        Optional<Path> cert = pemFile(mqtt, "client_cert", siteFolder, problems, LinkTls::certificates);
+        Optional<Path> key = pemFile(mqtt, "client_key", siteFolder, problems, LinkTls::privateKey);
+        boolean secure = broker.filter(b -> !b.startsWith("tcp:")).isPresent();
+        for (String name : List.of("ca_file", "client_cert", "client_key")) {
+            if (!secure && mqtt.has(name)) {
+                problems.add(new ConfigProblem(mqtt.position(name), "mqtt " + name + " needs a TLS broker"
+                        + " (ssl://HOST:PORT)"));
+            }
+        }
+        if (mqtt.has("client_cert") != mqtt.has("client_key")) {
+            problems.add(new ConfigProblem(mqtt.position(mqtt.has("client_cert") ? "client_cert" : "client_key"),
+                    "mqtt client_cert and client_key go together"));
+            return LinkTls.defaults();
+        }
+        return cert.isPresent() && key.isPresent() ? new LinkTls(ca, cert, key)
+                : new LinkTls(ca, Optional.empty(), Optional.empty());
+    }
+
+    private static Optional<Path> pemFile(Section mqtt, String key, Path siteFolder, List<ConfigProblem> problems,
+            java.util.function.Function<Path, ?> parse) {
+        Optional<Path> file = mqtt.text(key).map(siteFolder::resolve);
+        if (file.isPresent()) {
+            try {
+                parse.apply(file.get());
+            } catch (IllegalArgumentException e) {
+                problems.add(new ConfigProblem(mqtt.position(key), "mqtt " + key + ": " + e.getMessage()));
+                return Optional.empty();
+            }
+        }
+        return file;
     }
 
     public DaemonSettings withBroker(Optional<String> uri, int port) {
         return new DaemonSettings(uri, port, prefix, clientId, username, passwordFile, maxInterval, deadbands,
-                journalPath, retention, apiPort, tokenFile, history);
+                journalPath, retention, apiPort, tokenFile, history, passwordEnv, tls, operators);
     }
 
     public DaemonSettings withJournal(Path path) {
         return new DaemonSettings(broker, embeddedPort, prefix, clientId, username, passwordFile, maxInterval,
-                deadbands, path, retention, apiPort, tokenFile, history);
+                deadbands, path, retention, apiPort, tokenFile, history, passwordEnv, tls, operators);
     }
 
     public DaemonSettings withPrefix(String topicPrefix, String client) {
         return new DaemonSettings(broker, embeddedPort, topicPrefix, client, username, passwordFile, maxInterval,
-                deadbands, journalPath, retention, apiPort, tokenFile, history);
+                deadbands, journalPath, retention, apiPort, tokenFile, history, passwordEnv, tls, operators);
     }
 
     public DaemonSettings withApi(Optional<Integer> port, Optional<Path> token) {
         return new DaemonSettings(broker, embeddedPort, prefix, clientId, username, passwordFile, maxInterval,
-                deadbands, journalPath, retention, port, token, history);
+                deadbands, journalPath, retention, port, token, history, passwordEnv, tls, operators);
+    }
+
+    public DaemonSettings withOperators(OperatorRoster roster) {
+        return new DaemonSettings(broker, embeddedPort, prefix, clientId, username, passwordFile, maxInterval,
+                deadbands, journalPath, retention, apiPort, tokenFile, history, passwordEnv, tls, roster);
     }
 
     public DaemonSettings withMaxInterval(Duration interval) {
         return new DaemonSettings(broker, embeddedPort, prefix, clientId, username, passwordFile, interval,
-                deadbands, journalPath, retention, apiPort, tokenFile, history);
+                deadbands, journalPath, retention, apiPort, tokenFile, history, passwordEnv, tls, operators);
     }
 
     public DaemonSettings withHistory(HistorySettings settings) {
         return new DaemonSettings(broker, embeddedPort, prefix, clientId, username, passwordFile, maxInterval,
-                deadbands, journalPath, retention, apiPort, tokenFile, settings);
+                deadbands, journalPath, retention, apiPort, tokenFile, settings, passwordEnv, tls, operators);
     }
 
     private record DeadbandTarget(org.cryowarden.rules.Unit unit) {
@@ -214,6 +312,10 @@ public record DaemonSettings(
                             + name + "; expected one of " + String.join(", ", allowed)));
                 }
             }
+        }
+
+        boolean has(String key) {
+            return node != null && node.get(key).isPresent();
         }
 
         org.cryowarden.rules.SourcePosition position(String key) {

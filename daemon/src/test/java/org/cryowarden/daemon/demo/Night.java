@@ -60,8 +60,20 @@ final class Night implements AutoCloseable {
         return start(folder, broker, ptys, journal, "harbour-hall-quench-scenario.yaml");
     }
 
+    /** As {@link #start(Path, String, boolean)}, with the daemon's settings changed by {@code adjust}. */
+    static Night start(Path folder, String broker, boolean ptys,
+            java.util.function.UnaryOperator<DaemonSettings> adjust) throws Exception {
+        return start(folder, broker, ptys, folder.resolve("journal.db"), "harbour-hall-quench-scenario.yaml", adjust);
+    }
+
     /** As {@link #start(Path, String, boolean, Path)}, with another scenario of config-examples. */
     static Night start(Path folder, String broker, boolean ptys, Path journal, String scenarioFile) throws Exception {
+        return start(folder, broker, ptys, journal, scenarioFile, java.util.function.UnaryOperator.identity());
+    }
+
+    /** The general form: journal file, scenario of config-examples, and a change to the daemon's settings. */
+    static Night start(Path folder, String broker, boolean ptys, Path journal, String scenarioFile,
+            java.util.function.UnaryOperator<DaemonSettings> adjust) throws Exception {
         Path examples = Files.createDirectories(folder.resolve("config-examples"));
         for (String name : List.of(DemoFiles.SITE, DemoFiles.RULES, scenarioFile)) {
             Files.copy(Path.of("..", "config-examples", name), examples.resolve(name));
@@ -82,9 +94,9 @@ final class Night implements AutoCloseable {
                 configuration = overPtys(configuration, endpoints);
             }
             String prefix = "cryowarden-test/" + UUID.randomUUID();
-            DaemonSettings settings = DaemonSettings.read(configuration.site(), examples)
+            DaemonSettings settings = adjust.apply(DaemonSettings.read(configuration.site(), examples)
                     .withBroker(Optional.of(broker), 1883).withPrefix(prefix, "test-" + UUID.randomUUID())
-                    .withJournal(journal).withApi(Optional.empty(), Optional.empty());
+                    .withJournal(journal).withApi(Optional.empty(), Optional.empty()));
             Daemon daemon = Daemon.start(site, rules, configuration, settings, catalog, clock,
                     Daemon.Options.defaults().driven());
             return new Night(prefix, simulator, daemon, endpoints);

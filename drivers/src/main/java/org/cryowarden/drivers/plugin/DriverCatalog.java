@@ -24,7 +24,8 @@ import org.slf4j.LoggerFactory;
  * Every driver the program can use: those on the class path (the built-in ones, registered in
  * {@code META-INF/services} like any plugin) and those in the jars of a plugins folder, each jar in its own class
  * loader. Discovery is defensive: a provider that fails to load or to answer is reported by name with the reason
- * and skipped; of two drivers claiming one id the first found wins and the other is reported.
+ * and skipped; of two drivers claiming one id the first found wins and the other is reported. A plugins folder
+ * or jar that other users could write, or that another user owns, is refused ({@link PluginFileTrust}).
  */
 public final class DriverCatalog {
 
@@ -58,8 +59,23 @@ public final class DriverCatalog {
         List<LoadFailure> failures = new ArrayList<>();
         load(ServiceLoader.load(DriverFactory.class, classLoader), null, "", drivers, failures);
         if (pluginFolder.isPresent() && Files.isDirectory(pluginFolder.get())) {
-            for (Path jar : jars(pluginFolder.get(), failures)) {
-                loadJar(jar, classLoader, drivers, failures);
+            PluginFileTrust trust = new PluginFileTrust(System.getProperty("user.name"));
+            Path folder = pluginFolder.get();
+            Optional<String> folderRefusal = trust.refusal(realPath(folder));
+            if (folderRefusal.isPresent()) {
+                failures.add(new LoadFailure(folder.toString(), "plugins folder refused, no plugin loaded from it: "
+                        + folderRefusal.get()));
+                LOG.warn("plugins folder {} refused: {}", folder, folderRefusal.get());
+            } else {
+                for (Path jar : jars(folder, failures)) {
+                    Optional<String> jarRefusal = trust.refusal(jar);
+                    if (jarRefusal.isPresent()) {
+                        failures.add(new LoadFailure(jar.toString(), "plugin refused: " + jarRefusal.get()));
+                        LOG.warn("plugin {} refused: {}", jar, jarRefusal.get());
+                    } else {
+                        loadJar(jar, classLoader, drivers, failures);
+                    }
+                }
             }
         }
         return new DriverCatalog(drivers, failures);
@@ -81,11 +97,20 @@ public final class DriverCatalog {
         return drivers.stream().map(LoadedDriver::id).toList();
     }
 
+    /** The configured folder may be a link (to a versioned install, say); its target is what must be trusted. */
+    private static Path realPath(Path folder) {
+        try {
+            return folder.toRealPath();
+        } catch (IOException e) {
+            return folder;
+        }
+    }
+
     private static List<Path> jars(Path folder, List<LoadFailure> failures) {
         List<Path> jars = new ArrayList<>();
         try (DirectoryStream<Path> listing = Files.newDirectoryStream(folder, "*.jar")) {
             listing.forEach(path -> {
-                if (Files.isRegularFile(path)) {
+                if (Files.isRegularFile(path) || Files.isSymbolicLink(path)) {
                     jars.add(path);
                 }
             });

@@ -13,6 +13,9 @@ import java.util.jar.JarEntry;
 import java.util.jar.JarOutputStream;
 import javax.tools.JavaCompiler;
 import javax.tools.ToolProvider;
+import java.nio.file.attribute.PosixFilePermissions;
+import java.nio.file.attribute.UserPrincipal;
+import org.junit.jupiter.api.Assumptions;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 
@@ -95,6 +98,72 @@ class DriverCatalogTest {
 
         assertThat(catalog.failures()).isEmpty();
         assertThat(catalog.ids()).hasSize(3);
+    }
+
+    @Test
+    void jarWritableByOtherUsersIsRefusedWithTheChmodFix() throws Exception {
+        Path jar = pluginJar("open.jar", "demo.OpenFactory", factorySource("demo", "OpenFactory", "open-gauge",
+                "constructor-ok"));
+        Files.setPosixFilePermissions(jar, PosixFilePermissions.fromString("rw-rw-rw-"));
+
+        DriverCatalog catalog = DriverCatalog.discover(getClass().getClassLoader(), Optional.of(folder));
+
+        assertThat(catalog.ids()).doesNotContain("open-gauge");
+        assertThat(catalog.failures()).singleElement().satisfies(failure -> {
+            assertThat(failure.name()).isEqualTo(jar.toString());
+            assertThat(failure.reason()).isEqualTo("plugin refused: the file is writable by other users; "
+                    + "fix with: chmod go-w " + jar);
+        });
+    }
+
+    @Test
+    void jarWritableByItsGroupIsRefused() throws Exception {
+        Path jar = pluginJar("group.jar", "demo.GroupFactory", factorySource("demo", "GroupFactory", "group-gauge",
+                "constructor-ok"));
+        Files.setPosixFilePermissions(jar, PosixFilePermissions.fromString("rw-rw-r--"));
+
+        DriverCatalog catalog = DriverCatalog.discover(getClass().getClassLoader(), Optional.of(folder));
+
+        assertThat(catalog.ids()).doesNotContain("group-gauge");
+        assertThat(catalog.failures()).singleElement().extracting(DriverCatalog.LoadFailure::reason)
+                .isEqualTo("plugin refused: the file is writable by its group; fix with: chmod go-w " + jar);
+    }
+
+    @Test
+    void folderWritableByOtherUsersIsRefusedAndNothingLoadsFromIt() throws Exception {
+        pluginJar("fine.jar", "demo.FineFactory", factorySource("demo", "FineFactory", "fine-gauge", "constructor-ok"));
+        Files.setPosixFilePermissions(folder, PosixFilePermissions.fromString("rwxrwxrwx"));
+
+        DriverCatalog catalog = DriverCatalog.discover(getClass().getClassLoader(), Optional.of(folder));
+
+        assertThat(catalog.ids()).containsExactly("modbus-rtu", "scpi", "line");
+        assertThat(catalog.failures()).singleElement().satisfies(failure -> {
+            assertThat(failure.name()).isEqualTo(folder.toString());
+            assertThat(failure.reason()).isEqualTo("plugins folder refused, no plugin loaded from it: the folder is "
+                    + "writable by other users; fix with: chmod go-w " + folder.toRealPath());
+        });
+    }
+
+    @Test
+    void jarOwnedByAnotherUserIsRefused() throws Exception {
+        Path jar = pluginJar("theirs.jar", "demo.TheirFactory", factorySource("demo", "TheirFactory", "their-gauge",
+                "constructor-ok"));
+        UserPrincipal nobody;
+        try {
+            nobody = folder.getFileSystem().getUserPrincipalLookupService().lookupPrincipalByName("nobody");
+            Files.setOwner(jar, nobody);
+        } catch (IOException e) {
+            Assumptions.abort("cannot give a file to user nobody here (needs root): " + e);
+            return;
+        }
+
+        DriverCatalog catalog = DriverCatalog.discover(getClass().getClassLoader(), Optional.of(folder));
+
+        assertThat(catalog.ids()).doesNotContain("their-gauge");
+        assertThat(catalog.failures()).singleElement().extracting(DriverCatalog.LoadFailure::reason)
+                .isEqualTo("plugin refused: the file belongs to 'nobody', not to the daemon's user '"
+                        + System.getProperty("user.name") + "' or root; fix with: chown "
+                        + System.getProperty("user.name") + " " + jar);
     }
 
     /** A minimal plugin factory; {@code behaviour} "throw" makes its constructor fail. */
