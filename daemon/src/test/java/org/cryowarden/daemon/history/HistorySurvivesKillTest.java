@@ -44,7 +44,8 @@ class HistorySurvivesKillTest {
                     lastReported = Integer.parseInt(line.substring("flushed ".length()));
                 }
             }
-            child.destroyForcibly();
+            // SIGKILL through the handle: Process.destroyForcibly would also close the pipe we still read from.
+            child.toHandle().destroyForcibly();
             assertThat(child.waitFor(30, TimeUnit.SECONDS)).as("child is gone").isTrue();
             // The child may have flushed further before the kill landed; what it said is still in the pipe.
             while ((line = out.readLine()) != null) {
