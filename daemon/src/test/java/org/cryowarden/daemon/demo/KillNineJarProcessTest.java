@@ -1,5 +1,10 @@
 package org.cryowarden.daemon.demo;
 
+import static org.cryowarden.daemon.demo.DashboardView.alarms;
+import static org.cryowarden.daemon.demo.DashboardView.await;
+import static org.cryowarden.daemon.demo.DashboardView.events;
+import static org.cryowarden.daemon.demo.DashboardView.json;
+import static org.cryowarden.daemon.demo.DashboardView.state;
 import static org.assertj.core.api.Assertions.assertThat;
 
 import com.fasterxml.jackson.databind.JsonNode;
@@ -156,45 +161,5 @@ class KillNineJarProcessTest {
     private static String view(JsonNode alarm) {
         return alarm.path("state").asText() + " by " + alarm.path("acknowledged_by").asText() + " shelved "
                 + alarm.path("shelved_until").asText();
-    }
-
-    private static Map<String, JsonNode> alarms(Subscriber subscriber, String prefix) {
-        Map<String, JsonNode> alarms = new LinkedHashMap<>();
-        for (Subscriber.Message message : new ArrayList<>(subscriber.received)) {
-            if (message.topic().startsWith(prefix + "/alarm/")) {
-                alarms.put(message.topic().substring((prefix + "/alarm/").length()), json(message.text()));
-            }
-        }
-        return alarms;
-    }
-
-    private static JsonNode state(Subscriber subscriber, String prefix, String topic) {
-        List<Subscriber.Message> messages = subscriber.on(prefix + "/" + topic);
-        return messages.isEmpty() ? Payloads.object() : json(messages.get(messages.size() - 1).text());
-    }
-
-    private static List<String> events(Subscriber subscriber, String prefix) {
-        return subscriber.on(prefix + "/event").stream().map(m -> json(m.text()))
-                .map(e -> e.path("kind").asText() + " " + e.path("subject").asText()).toList();
-    }
-
-    private static JsonNode json(String text) {
-        try {
-            return Payloads.JSON.readTree(text);
-        } catch (Exception e) {
-            throw new AssertionError(e);
-        }
-    }
-
-    /** Polls {@code condition} every 20 ms for at most {@code seconds}; shows the process's output on failure. */
-    private static void await(BooleanSupplier condition, int seconds, JarProcess process) throws Exception {
-        long deadline = System.nanoTime() + Duration.ofSeconds(seconds).toNanos();
-        while (!condition.getAsBoolean()) {
-            if (System.nanoTime() > deadline) {
-                throw new AssertionError("condition not met within " + seconds + " s"
-                        + (process == null ? "" : "; output:\n" + process.output()));
-            }
-            Thread.sleep(20);
-        }
     }
 }
