@@ -90,24 +90,7 @@ final class BlockDecoder {
         if (last < first) {
             throw new CorruptBlockException(label, "corrupt header: last timestamp before the first");
         }
-        long runCount = cursor.varint();
-        long covered = 0;
-        for (long i = 0; i < runCount; i++) {
-            long length = cursor.varint();
-            int quality = cursor.u8();
-            if (BlockFormat.quality(quality) == null) {
-                throw new CorruptBlockException(label, "corrupt header: unknown quality code " + quality);
-            }
-            cursor.text(label);
-            if (length < 1) {
-                throw new CorruptBlockException(label, "corrupt header: empty quality run");
-            }
-            covered += length;
-        }
-        if (covered != count) {
-            throw new CorruptBlockException(label, "corrupt header: quality runs cover " + covered
-                    + " readings but the block holds " + count);
-        }
+        runs(label, cursor, count);
         long bitLength = cursor.varint();
         long streamBytes = (bitLength + 7) >>> 3;
         if (bitLength < 0 || streamBytes != end - cursor.position) {
