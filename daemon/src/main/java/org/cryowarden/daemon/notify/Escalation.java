@@ -37,6 +37,8 @@ import org.cryowarden.rules.model.Priority;
 final class Escalation {
 
     private static final ObjectMapper JSON = new ObjectMapper();
+    /** The prefix that keeps a watchdog stall's case apart from the alarm ids. */
+    static final String WATCHDOG = "watchdog:";
 
     private final Roster roster;
     private final TimeSource time;
@@ -97,7 +99,7 @@ final class Escalation {
         switch (kind) {
             case "alarm.raised" -> raise(subject, priority(event.payload()), event.payload().path("message")
                     .asText(subject), seq);
-            case "watchdog.stalled" -> raise("watchdog:" + subject, Priority.CRITICAL,
+            case "watchdog.stalled" -> raise(WATCHDOG + subject, Priority.CRITICAL,
                     event.payload().path("cause").asText("the daemon stalled"), seq);
             case "alarm.acknowledged", "alarm.shelved", "alarm.out-of-service" -> event.operator()
                     .ifPresent(operator -> taken(subject, operator, verb(kind)));
@@ -106,7 +108,7 @@ final class Escalation {
                     open.remove(subject);
                 }
             }
-            case "watchdog.recovered" -> recovered("watchdog:" + subject);
+            case "watchdog.recovered" -> recovered(WATCHDOG + subject);
             case "flood.started" -> floodStarted(event, seq);
             case "flood.ended" -> floodEnded(event, seq);
             default -> {

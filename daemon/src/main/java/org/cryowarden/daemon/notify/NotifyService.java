@@ -32,6 +32,9 @@ public final class NotifyService implements AutoCloseable {
     }
 
     private final Escalation escalation;
+    private final ResumeClock escalationClock;
+    private final Journal journal;
+    private final Roster roster;
     private final NoticeOutbox outbox;
     private final TimeSource time;
     private final Map<String, SenderQueue> senders = new LinkedHashMap<>();
@@ -41,10 +44,32 @@ public final class NotifyService implements AutoCloseable {
 
     public NotifyService(Roster roster, Map<String, Notifier> notifiers, Journal journal, TimeSource time,
             String site) {
-        this.escalation = new Escalation(roster, time, site);
+        this.escalationClock = new ResumeClock(time);
+        this.escalation = new Escalation(roster, escalationClock, site);
+        this.journal = journal;
+        this.roster = roster;
         this.outbox = new NoticeOutbox(journal);
         this.time = time;
         notifiers.forEach((id, notifier) -> senders.put(id, new SenderQueue(id, notifier, outbox, time)));
+    }
+
+    /**
+     * Picks up, after a restart, the escalations the previous run had in progress (see {@link EscalationReplay})
+     * and queues the notices that fell due while the daemon was down. Call once, before {@link #start} and before
+     * the first {@link #accept}.
+     *
+     * @return the alarms being escalated again
+     */
+    public java.util.Set<String> resume() throws JournalException {
+        EscalationReplay.Outcome outcome = EscalationReplay.run(escalation, escalationClock, journal, roster);
+        outbox.enqueue(outcome.missed(), time.wallNow());
+        if (!outcome.open().isEmpty() || !outcome.missed().isEmpty()) {
+            LOG.info("notify: resumed the escalation of {} from the journal ({} events, {} notices already queued);"
+                    + " {} notices fell due while the daemon was down and go now: {}", outcome.open(),
+                    outcome.events(), outcome.alreadyQueued(), outcome.missed().size(),
+                    outcome.missed().stream().map(Message::id).toList());
+        }
+        return outcome.open();
     }
 
     /** Hands over events the journal recorded, with their sequence numbers (empty where recording failed). */

@@ -197,6 +197,7 @@ public final class Daemon implements AutoCloseable {
             listeners.forEach(l -> l.accept(recorded));
         });
         restore();
+        notifications.ifPresent(Daemon::resumeEscalations);
         this.pollers = SiteDrivers.pollers(configuration.site(), catalog, time, loop::offer, options.backoff());
         outputs.owners(owners(pollers, configuration));
         registerMetrics();
@@ -305,6 +306,16 @@ public final class Daemon implements AutoCloseable {
         if (!settings.operators().configured()) {
             LOG.warn("no operators section in the site file: commands are not checked against roles (HTTP writes"
                     + " need the api token_file, MQTT commands only the broker's ACL); list the operators to check them");
+        }
+    }
+
+    /** Escalation survives a restart; a journal that cannot be read for it must not keep the daemon down. */
+    private static void resumeEscalations(NotifyService notify) {
+        try {
+            notify.resume();
+        } catch (JournalException e) {
+            LOG.error("notify: could not resume escalations from the journal ({}); alarms still unacknowledged"
+                    + " are not escalated further until they are raised again", e.getMessage());
         }
     }
 

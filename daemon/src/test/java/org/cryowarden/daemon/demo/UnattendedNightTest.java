@@ -133,6 +133,27 @@ class UnattendedNightTest {
     }
 
     @Test
+    void escalationUnderWayCarriesOnThroughADaemonRestart() throws Exception {
+        try (WebhookReceiver receiver = new WebhookReceiver();
+                Plant plant = Plant.start(folder, "harbour-hall-quench-scenario.yaml", Optional.of(receiver.url()))) {
+            plant.stepper.until(() -> !calls(receiver, "ines", "alarm").isEmpty(), 400);
+            Instant paged = plant.clock.wallNow();
+            String alarm = calls(receiver, "ines", "alarm").get(0).path("alarm").asText();
+            plant.stepper.steps(20);
+            plant.restartDaemon(); // 20 s into the roster's 1 min wait, the alarm still unacknowledged
+            plant.stepper.until(() -> !calls(receiver, "tomas", "alarm").isEmpty(), 100);
+
+            // The roster's second step waits 1 min after the first; the restart does not start it again.
+            assertThat(Duration.between(paged, plant.clock.wallNow())).isBetween(Duration.ofSeconds(58),
+                    Duration.ofSeconds(65));
+            assertThat(receiver.calls().stream().map(c -> json(c.text()))
+                    .filter(j -> j.path("alarm").asText().equals(alarm)).map(j -> j.path("id").asText()
+                            .replaceFirst("^a\\d+", "a")).toList())
+                    .containsExactly("a.s1.ines", "a.s2.tomas");
+        }
+    }
+
+    @Test
     void relayContactIsEnergisedWhileAllIsWellAndDropsWhenTheDaemonStops() throws Exception {
         try (Plant plant = Plant.start(folder, "harbour-hall-quiet-scenario.yaml", Optional.empty())) {
             plant.stepper.steps(20);
@@ -147,14 +168,29 @@ class UnattendedNightTest {
     private static final class Plant implements AutoCloseable {
         final VirtualTimeSource clock;
         final Simulator simulator;
-        final Daemon daemon;
         final Stepper stepper;
+        private final Restart restart;
+        Daemon daemon;
 
-        private Plant(VirtualTimeSource clock, Simulator simulator, Daemon daemon, Stepper stepper) {
+        /** What starting the daemon again on the same journal needs. */
+        private record Restart(Path site, List<Path> rules, Configuration configuration, DaemonSettings settings,
+                               NightSettings night, DriverCatalog catalog) {
+        }
+
+        private Plant(VirtualTimeSource clock, Simulator simulator, Daemon daemon, Stepper stepper, Restart restart) {
             this.clock = clock;
             this.simulator = simulator;
             this.daemon = daemon;
             this.stepper = stepper;
+            this.restart = restart;
+        }
+
+        /** Stops the daemon and starts a new one on the same journal, as a service restart would. */
+        void restartDaemon() throws Exception {
+            daemon.close();
+            daemon = Daemon.start(restart.site(), restart.rules(), restart.configuration(), restart.settings(),
+                    restart.night(), restart.catalog(), clock, Daemon.Options.defaults().driven());
+            stepper.daemon = daemon;
         }
 
         static Plant start(Path folder, String scenarioName, Optional<String> webhook) throws Exception {
@@ -201,7 +237,8 @@ class UnattendedNightTest {
                 Daemon daemon = Daemon.start(site, rules, configuration, settings, night, catalog, clock,
                         Daemon.Options.defaults().driven());
                 stepper.daemon = daemon;
-                return new Plant(clock, simulator, daemon, stepper);
+                return new Plant(clock, simulator, daemon, stepper,
+                        new Restart(site, rules, configuration, settings, night, catalog));
             } catch (Exception | AssertionError e) {
                 simulator.close();
                 throw e;

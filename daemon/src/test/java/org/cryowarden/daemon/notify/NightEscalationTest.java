@@ -207,6 +207,77 @@ class NightEscalationTest {
     }
 
     @Test
+    void escalationInProgressCarriesOnAfterARestart() throws Exception {
+        try (WebhookReceiver receiver = new WebhookReceiver();
+                NightHarness night = new NightHarness(folder, ROSTER, receiver.url(), Optional.empty())) {
+            night.recordEvents();
+            night.raise("o2-east-low", "critical", "oxygen 18.9 %vol below 19.5 %vol");
+            night.pass(Duration.ofMinutes(4), Duration.ofSeconds(10));
+            night.restart(); // 22:04: the daemon restarts with the alarm still unacknowledged
+            night.pass(Duration.ofMinutes(26), Duration.ofSeconds(10));
+
+            // The roster's critical policy: on-call at once, tomas after 10 min, one reminder to both 15 min later.
+            assertThat(calls(receiver)).containsExactly(
+                    "a1.s1.ines ines alarm",
+                    "a1.s2.tomas tomas alarm",
+                    "a1.s3.ines ines reminder",
+                    "a1.s3.tomas tomas reminder");
+            assertThat(json(receiver.calls().get(1).text()).path("reason").asText())
+                    .isEqualTo("not acknowledged 10min after it was raised");
+        }
+    }
+
+    @Test
+    void stepThatFellDueWhileTheDaemonWasDownGoesAtTheRestartAndTheFirstPageIsNotRepeated() throws Exception {
+        try (WebhookReceiver receiver = new WebhookReceiver();
+                NightHarness night = new NightHarness(folder, ROSTER, receiver.url(), Optional.empty())) {
+            night.recordEvents();
+            night.raise("o2-east-low", "critical", "oxygen 18.9 %vol below 19.5 %vol");
+            night.pass(Duration.ofMinutes(4), Duration.ofSeconds(10));
+            night.time.advance(Duration.ofMinutes(8)); // down from 22:04 to 22:12, past the 22:10 step
+            night.restart();
+            night.pass(Duration.ofSeconds(10), Duration.ofSeconds(10));
+            assertThat(calls(receiver)).containsExactly("a1.s1.ines ines alarm", "a1.s2.tomas tomas alarm");
+
+            night.acknowledge("o2-east-low", "critical", "Tomas Reyes");
+            night.pass(Duration.ofMinutes(30), Duration.ofSeconds(10));
+            assertThat(calls(receiver)).containsExactly("a1.s1.ines ines alarm", "a1.s2.tomas tomas alarm",
+                    "a1.taken.ines ines taken");
+        }
+    }
+
+    @Test
+    void alarmAcknowledgedBeforeARestartIsNotEscalatedAfterIt() throws Exception {
+        try (WebhookReceiver receiver = new WebhookReceiver();
+                NightHarness night = new NightHarness(folder, ROSTER, receiver.url(), Optional.empty())) {
+            night.recordEvents();
+            night.raise("o2-east-low", "critical", "oxygen 18.9 %vol below 19.5 %vol");
+            night.pass(Duration.ofMinutes(2), Duration.ofSeconds(10));
+            night.acknowledge("o2-east-low", "critical", "Ines Okafor");
+            night.pass(Duration.ofMinutes(1), Duration.ofSeconds(10));
+            night.restart();
+            night.pass(Duration.ofMinutes(40), Duration.ofSeconds(10));
+
+            assertThat(calls(receiver)).containsExactly("a1.s1.ines ines alarm");
+            assertThat(night.service.depth("pager-hook")).isZero();
+        }
+    }
+
+    @Test
+    void watchdogStallOfTheProcessThatDiedEndsAtTheRestartAndWhoeverWasPagedIsTold() throws Exception {
+        try (WebhookReceiver receiver = new WebhookReceiver();
+                NightHarness night = new NightHarness(folder, ROSTER, receiver.url(), Optional.empty())) {
+            night.recordEvents();
+            night.stalled("engine", "the rule engine did not answer a probe for 30s");
+            night.pass(Duration.ofMinutes(3), Duration.ofSeconds(10));
+            night.restart();
+            night.pass(Duration.ofMinutes(40), Duration.ofSeconds(10));
+
+            assertThat(calls(receiver)).containsExactly("a1.s1.ines ines alarm", "a1.recovered.ines ines recovered");
+        }
+    }
+
+    @Test
     void signatureHeaderIsTheHmacSha256OfTheBody() throws Exception {
         // RFC 4231 section 4.3, test case 2: key "Jefe", data "what do ya want for nothing?".
         assertThat(hmacHex("Jefe".getBytes(StandardCharsets.US_ASCII),

@@ -13,6 +13,7 @@ import java.util.Optional;
 import java.util.OptionalLong;
 import org.cryowarden.daemon.journal.Journal;
 import org.cryowarden.daemon.journal.JournalSettings;
+import org.cryowarden.daemon.journal.NewEvent;
 import org.cryowarden.daemon.notify.builtin.MailNotifierFactory;
 import org.cryowarden.daemon.notify.builtin.WebhookNotifierFactory;
 import org.cryowarden.daemon.notify.spi.Notifier;
@@ -35,6 +36,7 @@ final class NightHarness implements AutoCloseable {
     private final Path folder;
     NotifyService service;
     private long seq = 100;
+    private boolean journaled;
 
     NightHarness(Path folder, String rosterYaml, String webhookUrl, Optional<Integer> smtpPort) throws Exception {
         this.folder = folder;
@@ -56,9 +58,15 @@ final class NightHarness implements AutoCloseable {
         service = new NotifyService(roster, notifiers, journal, time, "harbour-hall");
     }
 
-    /** A fresh service on the same journal and senders, as after a daemon restart. */
-    void restart() {
+    /** From now on, scripted events are recorded in the journal first and carry its sequence numbers. */
+    void recordEvents() {
+        journaled = true;
+    }
+
+    /** A fresh service on the same journal and senders, as after a daemon restart (which resumes first). */
+    void restart() throws Exception {
         service = new NotifyService(roster, notifiers, journal, time, "harbour-hall");
+        service.resume();
     }
 
     /** An {@code alarm.raised} as the daemon's event mapping writes it. */
@@ -80,6 +88,13 @@ final class NightHarness implements AutoCloseable {
         payload.put("priority", priority);
         send(new DaemonEvent("alarm.acknowledged", time.wallNow(), Optional.of(alarm), Optional.of(operator),
                 payload));
+    }
+
+    /** A {@code watchdog.stalled} as the daemon's watchdog journals it. */
+    void stalled(String part, String cause) {
+        ObjectNode payload = JSON.createObjectNode();
+        payload.put("cause", cause);
+        send(new DaemonEvent("watchdog.stalled", time.wallNow(), Optional.of(part), Optional.empty(), payload));
     }
 
     void floodStarted(int count, String firstOut, Instant firstOutAt) {
@@ -126,7 +141,16 @@ final class NightHarness implements AutoCloseable {
     }
 
     private void send(DaemonEvent event) {
-        service.accept(List.of(event), List.of(OptionalLong.of(seq++)));
+        long number = seq++;
+        if (journaled) {
+            try {
+                number = journal.append(new NewEvent(event.kind(), event.at(), event.subject(), event.operator(),
+                        JSON.writeValueAsString(event.payload())));
+            } catch (Exception e) {
+                throw new AssertionError(e);
+            }
+        }
+        service.accept(List.of(event), List.of(OptionalLong.of(number)));
         service.runDue();
     }
 
