@@ -39,7 +39,7 @@ final class EscalationReplay {
             "flood.ended");
 
     /** What the replay found: the notices to queue now, and how much it went through. */
-    record Outcome(List<Message> missed, int events, int alreadyQueued, Set<String> open) {
+    record Outcome(List<Message> missed, int events, int alreadyQueued, Set<String> open, long lastSeq) {
     }
 
     private EscalationReplay() {
@@ -53,9 +53,11 @@ final class EscalationReplay {
             List<Message> decided = new ArrayList<>();
             Set<String> queued = new HashSet<>();
             int events = 0;
+            long lastSeq = 0;
             List<JournalEvent> page = journal.eventsSince(from, PAGE);
             while (!page.isEmpty()) {
                 for (JournalEvent event : page) {
+                    lastSeq = event.seq();
                     if (event.kind().equals("notify.queued")) {
                         queued.add(payload(event).path("notice").asText());
                     } else if (DECIDING.contains(event.kind())) {
@@ -77,7 +79,7 @@ final class EscalationReplay {
                 }
             }
             List<Message> missed = decided.stream().filter(m -> !queued.contains(m.id())).toList();
-            return new Outcome(missed, events, decided.size() - missed.size(), escalation.escalating());
+            return new Outcome(missed, events, decided.size() - missed.size(), escalation.escalating(), lastSeq);
         } finally {
             clock.goLive();
         }

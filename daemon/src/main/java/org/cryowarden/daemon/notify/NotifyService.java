@@ -39,6 +39,8 @@ public final class NotifyService implements AutoCloseable {
     private final TimeSource time;
     private final Map<String, SenderQueue> senders = new LinkedHashMap<>();
     private final ConcurrentLinkedQueue<Recorded> inbox = new ConcurrentLinkedQueue<>();
+    /** Events up to this journal sequence number were taken by {@link #resume}; the inbox skips them. */
+    private volatile long resumedThrough;
     private volatile boolean running;
     private Thread thread;
 
@@ -55,13 +57,14 @@ public final class NotifyService implements AutoCloseable {
 
     /**
      * Picks up, after a restart, the escalations the previous run had in progress (see {@link EscalationReplay})
-     * and queues the notices that fell due while the daemon was down. Call once, before {@link #start} and before
-     * the first {@link #accept}.
+     * and queues the notices that fell due while the daemon was down. Call once, before {@link #start}; events
+     * {@link #accept}ed meanwhile that the replay already read are not taken twice.
      *
      * @return the alarms being escalated again
      */
     public java.util.Set<String> resume() throws JournalException {
         EscalationReplay.Outcome outcome = EscalationReplay.run(escalation, escalationClock, journal, roster);
+        resumedThrough = outcome.lastSeq();
         outbox.enqueue(outcome.missed(), time.wallNow());
         if (!outcome.open().isEmpty() || !outcome.missed().isEmpty()) {
             LOG.info("notify: resumed the escalation of {} from the journal ({} events, {} notices already queued);"
@@ -91,6 +94,9 @@ public final class NotifyService implements AutoCloseable {
         List<Message> messages = new ArrayList<>();
         Recorded next;
         while ((next = inbox.poll()) != null) {
+            if (next.seq() > 0 && next.seq() <= resumedThrough) {
+                continue; // handed over while resume() was replaying it from the journal (a reload)
+            }
             messages.addAll(escalation.onEvent(next.event(), next.seq()));
         }
         messages.addAll(escalation.tick());

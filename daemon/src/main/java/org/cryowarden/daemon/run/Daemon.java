@@ -100,7 +100,7 @@ public final class Daemon implements AutoCloseable {
     private final MqttBridge bridge;
     private final OutputWriter outputs;
     private final HistoryRecorder history;
-    private final Optional<NotifyService> notifications;
+    private volatile Optional<NotifyService> notifications;
     private final Optional<CommonAlarmContact> contact;
     private final Watchdog watchdog;
     private final SystemdNotify systemd;
@@ -220,8 +220,7 @@ public final class Daemon implements AutoCloseable {
             DaemonSettings settings, DriverCatalog catalog, TimeSource time, Options options) throws StartException {
         NightSettings night;
         try {
-            Path parent = siteFile.toAbsolutePath().getParent();
-            night = NightSettings.read(configuration, parent == null ? Path.of(".") : parent);
+            night = NightSettings.read(configuration, siteFolder(siteFile));
         } catch (ConfigException e) {
             throw new StartException(e.problems().stream().map(ConfigProblem::toString)
                     .collect(java.util.stream.Collectors.joining("; ")), e);
@@ -524,17 +523,25 @@ public final class Daemon implements AutoCloseable {
 
     // ---- reload -------------------------------------------------------------------------------------------------
 
+    /** The site sections read only at startup: a change to them is reported as needing a restart. */
+    static final List<String> RESTART_SECTIONS = List.of("mqtt", "journal", "api", "watchdog", "common_alarm",
+            "operators");
+
     /**
-     * Re-reads the site and rule files. An invalid set keeps the running one and publishes its errors as a
-     * {@code config.rejected} event; a valid one replaces the engine with alarm states carried over by id, and
-     * restarts only the pollers whose bus changed.
+     * Re-reads the site and rule files, and the roster and secrets the notifiers name. An invalid set keeps the
+     * running one and publishes its errors as a {@code config.rejected} event; a valid one replaces the engine with
+     * alarm states carried over by id, restarts only the pollers whose bus changed, and starts the notifiers again
+     * on the new roster (escalations under way carry on: see {@link NotifyService#resume}). Sections read only at
+     * startup that changed are named in the event's {@code restart_needed}.
      *
      * @return the problems found; empty when the new set was applied
      */
     public List<String> reload() {
         Configuration fresh;
+        NightSettings freshNight;
         try {
             fresh = SiteSetup.load(siteFile, ruleFiles, catalog, time);
+            freshNight = NightSettings.read(fresh, siteFolder(siteFile));
         } catch (ConfigException e) {
             List<String> problems = e.problems().stream().map(ConfigProblem::toString).toList();
             ObjectNode payload = Payloads.object();
@@ -546,9 +553,12 @@ public final class Daemon implements AutoCloseable {
             return problems;
         }
         Engine engine = new Engine(EngineConfig.of(fresh.site(), fresh.rules()), time);
+        List<String> restartNeeded = changedSections(configuration, fresh);
         ObjectNode payload = Payloads.object();
         payload.put("cause", "configuration reloaded: " + fresh.rules().rules().size() + " rules, "
-                + fresh.channelCount() + " channels");
+                + fresh.channelCount() + " channels" + (restartNeeded.isEmpty() ? ""
+                : "; restart to apply the changes to " + String.join(", ", restartNeeded)));
+        payload.set("restart_needed", Payloads.JSON.valueToTree(restartNeeded));
         DaemonEvent event = new DaemonEvent("config.reloaded", time.wallNow(), Optional.empty(), Optional.empty(),
                 payload);
         CompletableFuture<List<String>> done = new CompletableFuture<>();
@@ -562,7 +572,50 @@ public final class Daemon implements AutoCloseable {
         }
         configuration = fresh;
         replacePollers(old, fresh);
+        replaceNotifications(freshNight, fresh);
+        if (!restartNeeded.isEmpty()) {
+            LOG.warn("reload: {} changed; those sections are read at startup only, restart to apply them",
+                    restartNeeded);
+        }
         return List.of();
+    }
+
+    /** The sections of {@link #RESTART_SECTIONS} that differ between the two configurations. */
+    static List<String> changedSections(Configuration old, Configuration fresh) {
+        List<String> changed = new ArrayList<>();
+        for (String section : RESTART_SECTIONS) {
+            org.cryowarden.rules.config.ConfigNode.Mapping before = old.site().sections().get(section);
+            org.cryowarden.rules.config.ConfigNode.Mapping after = fresh.site().sections().get(section);
+            String a = before == null ? "" : plain(before);
+            String b = after == null ? "" : plain(after);
+            if (!a.equals(b)) {
+                changed.add(section);
+            }
+        }
+        return changed;
+    }
+
+    /**
+     * Starts the notifiers again from the reloaded files. The new service is put in place first, so no recorded
+     * event falls between the two; its resume replays what the old one had decided (and what the old one had
+     * not yet taken), so nothing is sent twice.
+     */
+    private void replaceNotifications(NightSettings night, Configuration fresh) {
+        Optional<NotifyService> before = notifications;
+        Optional<NotifyService> after = night.notifiers().map(setup -> setup.service(journal, time,
+                fresh.site().name()));
+        notifications = after;
+        before.ifPresent(NotifyService::close); // before the new one delivers, so no notice goes out twice at once
+        after.ifPresent(Daemon::resumeEscalations);
+        if (options.mode() == Mode.THREADS) {
+            after.ifPresent(NotifyService::start);
+        }
+        LOG.info("reload: notifiers {}", after.isPresent() ? "started again on the reloaded roster" : "off");
+    }
+
+    static Path siteFolder(Path siteFile) {
+        Path parent = siteFile.toAbsolutePath().getParent();
+        return parent == null ? Path.of(".") : parent;
     }
 
     private void replacePollers(Configuration old, Configuration fresh) {

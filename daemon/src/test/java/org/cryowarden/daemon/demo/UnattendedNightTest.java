@@ -154,6 +154,38 @@ class UnattendedNightTest {
     }
 
     @Test
+    void reloadTakesTheEditedRosterForTheEscalationUnderWayAndSaysWhatNeedsARestart() throws Exception {
+        try (WebhookReceiver receiver = new WebhookReceiver();
+                Plant plant = Plant.start(folder, "harbour-hall-quench-scenario.yaml", Optional.of(receiver.url()))) {
+            plant.stepper.until(() -> !calls(receiver, "ines", "alarm").isEmpty(), 400);
+            Instant paged = plant.clock.wallNow();
+            String alarm = calls(receiver, "ines", "alarm").get(0).path("alarm").asText();
+            plant.stepper.steps(10);
+            Path roster = plant.examples().resolve("night-roster.yaml");
+            // A broken roster (a step naming nobody known) is refused and the running one stays.
+            Files.writeString(roster, ROSTER.replace("notify: [tomas]", "notify: [tomass]"));
+            assertThat(plant.reload()).anyMatch(p -> p.contains("tomass"));
+            assertThat(plant.journalKinds()).contains("config.rejected");
+            // The second step now goes to Noor instead of Tomas; the heartbeat change needs a restart.
+            Files.writeString(roster, ROSTER.replace("  - id: tomas\n", "  - id: noor\n    name: Noor Haddad\n"
+                    + "    reach:\n      - {sender: pager-hook}\n  - id: tomas\n").replace("notify: [tomas]", "notify: [noor]"));
+            Path site = plant.examples().resolve(DemoFiles.SITE);
+            Files.writeString(site, Files.readString(site).replace("watchdog: {heartbeat: 10s,", "watchdog: {heartbeat: 20s,"));
+            assertThat(plant.reload()).isEmpty();
+            plant.stepper.until(() -> !calls(receiver, "noor", "alarm").isEmpty(), 100);
+
+            assertThat(Duration.between(paged, plant.clock.wallNow())).isBetween(Duration.ofSeconds(58),
+                    Duration.ofSeconds(65));
+            assertThat(receiver.calls().stream().map(c -> json(c.text()))
+                    .filter(j -> j.path("alarm").asText().equals(alarm)).map(j -> j.path("id").asText()
+                            .replaceFirst("^a\\d+", "a")).toList()).containsExactly("a.s1.ines", "a.s2.noor");
+            JsonNode reloaded = JSON.readTree(plant.daemon.eventsAfter(0, 100_000).stream()
+                    .filter(e -> e.kind().equals("config.reloaded")).findFirst().orElseThrow().payloadJson());
+            assertThat(reloaded.path("restart_needed").toString()).isEqualTo("[\"watchdog\"]");
+        }
+    }
+
+    @Test
     void relayContactIsEnergisedWhileAllIsWellAndDropsWhenTheDaemonStops() throws Exception {
         try (Plant plant = Plant.start(folder, "harbour-hall-quiet-scenario.yaml", Optional.empty())) {
             plant.stepper.steps(20);
@@ -222,8 +254,9 @@ class UnattendedNightTest {
             try {
                 List<Endpoint> endpoints = simulator.startEmulators(new EmulatorOptions(
                         InetAddress.getLoopbackAddress(), Optional.of(0), Optional.empty()));
-                Configuration configuration = DemoNight.pointAt(SiteSetup.load(site, rules, catalog, clock),
-                        endpoints);
+                // The site file itself points at the emulators, so that a reload reads the same buses.
+                Files.writeString(site, pointedAt(Files.readString(site), endpoints));
+                Configuration configuration = SiteSetup.load(site, rules, catalog, clock);
                 NightSettings night = NightSettings.read(configuration, examples);
                 assertThat(night.notifiers().isPresent()).isEqualTo(webhook.isPresent());
                 Night.mosquittoRuns();
@@ -243,6 +276,37 @@ class UnattendedNightTest {
                 simulator.close();
                 throw e;
             }
+        }
+
+        /** The site file text with each emulated bus's transport replaced by the emulator's TCP endpoint. */
+        private static String pointedAt(String siteText, List<Endpoint> endpoints) {
+            StringBuilder out = new StringBuilder();
+            String bus = "";
+            for (String line : siteText.split("\n", -1)) {
+                java.util.regex.Matcher id = java.util.regex.Pattern.compile("^  - id: (\\S+)").matcher(line);
+                if (id.find()) {
+                    bus = id.group(1);
+                }
+                String current = bus;
+                Optional<Endpoint> endpoint = endpoints.stream().filter(e -> e.portId().equals(current)).findFirst();
+                if (line.startsWith("    transport:") && endpoint.isPresent()) {
+                    line = "    transport: {kind: tcp, host: " + endpoint.get().host() + ", port: "
+                            + endpoint.get().tcpPort() + ", connect_timeout: 2s}";
+                }
+                out.append(line).append('\n');
+            }
+            return out.substring(0, out.length() - 1);
+        }
+
+        /** Reloads as SIGHUP would, stepping the driven daemon until the engine took the new set. */
+        List<String> reload() throws Exception {
+            var done = java.util.concurrent.CompletableFuture.supplyAsync(daemon::reload);
+            stepper.until(done::isDone, 10);
+            return done.get();
+        }
+
+        Path examples() {
+            return restart.site().getParent();
         }
 
         List<String> journalKinds() throws Exception {
