@@ -1,9 +1,9 @@
 package org.cryowarden.daemon.broker;
 
+import static org.cryowarden.daemon.LoopbackPort.freePort;
 import static org.assertj.core.api.Assertions.assertThat;
 import static org.assertj.core.api.Assertions.assertThatThrownBy;
 
-import java.io.IOException;
 import java.net.InetAddress;
 import java.net.InetSocketAddress;
 import java.net.ServerSocket;
@@ -93,12 +93,6 @@ class EmbeddedBrokerTest {
         assertThatThrownBy(() -> PortChoice.exactly(70000))
                 .isInstanceOf(IllegalArgumentException.class)
                 .hasMessage("broker port must be between 1 and 65535, got 70000");
-    }
-
-    private static int freePort() throws IOException {
-        try (ServerSocket socket = new ServerSocket(0)) {
-            return socket.getLocalPort();
-        }
     }
 
     private static MqttClient client(String uri) throws Exception {

@@ -1,7 +1,6 @@
 package org.cryowarden.daemon.broker;
 
-import java.io.IOException;
-import java.net.ServerSocket;
+import static org.cryowarden.daemon.LoopbackPort.freePort;
 import java.net.URL;
 import java.nio.charset.StandardCharsets;
 import java.time.Duration;
@@ -65,11 +64,5 @@ public final class RunnableJarCheck {
         }
         System.out.println("ping".equals(got) ? "round trip ok" : "round trip failed: got " + got);
         return "ping".equals(got);
-    }
-
-    private static int freePort() throws IOException {
-        try (ServerSocket socket = new ServerSocket(0)) {
-            return socket.getLocalPort();
-        }
     }
 }

@@ -1,23 +1,20 @@
 package org.cryowarden.daemon.cli;
 
+import static org.cryowarden.daemon.LoopbackPort.freePort;
 import static org.assertj.core.api.Assertions.assertThat;
 
 import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.ObjectMapper;
 import java.io.PrintWriter;
 import java.io.StringWriter;
-import java.net.InetAddress;
-import java.net.ServerSocket;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.time.Duration;
 import java.time.Instant;
-import java.util.ArrayList;
 import java.util.HashMap;
 import java.util.Iterator;
 import java.util.List;
 import java.util.Map;
-import java.util.Optional;
 import org.cryowarden.daemon.journal.Journal;
 import org.cryowarden.daemon.journal.JournalSettings;
 import org.cryowarden.daemon.replay.JournalHistory;
@@ -183,11 +180,5 @@ class ReplayCommandTest {
         line.setErr(new PrintWriter(err));
         int exit = line.execute(args);
         return new Result(exit, out.toString(), err.toString());
-    }
-
-    private static int freePort() throws Exception {
-        try (ServerSocket probe = new ServerSocket(0, 1, InetAddress.getLoopbackAddress())) {
-            return probe.getLocalPort();
-        }
     }
 }

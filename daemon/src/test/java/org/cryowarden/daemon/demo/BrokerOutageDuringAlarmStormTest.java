@@ -1,11 +1,10 @@
 package org.cryowarden.daemon.demo;
 
+import static org.cryowarden.daemon.LoopbackPort.freePort;
+import static org.cryowarden.daemon.demo.Subscriber.json;
 import static org.assertj.core.api.Assertions.assertThat;
 
 import com.fasterxml.jackson.databind.JsonNode;
-import java.io.IOException;
-import java.net.InetAddress;
-import java.net.ServerSocket;
 import java.nio.file.Path;
 import java.time.Duration;
 import java.util.ArrayList;
@@ -15,7 +14,6 @@ import java.util.OptionalInt;
 import java.util.concurrent.TimeUnit;
 import org.cryowarden.daemon.journal.JournalEvent;
 import org.cryowarden.daemon.mqtt.TcpRelay;
-import org.cryowarden.daemon.run.Payloads;
 import org.cryowarden.simulator.emulators.Fault;
 import org.cryowarden.simulator.emulators.FaultKind;
 import org.cryowarden.simulator.emulators.Instrument;
@@ -47,7 +45,7 @@ class BrokerOutageDuringAlarmStormTest {
     void alarmStormDuringABrokerOutageLosesNoEventAndKeepsTheSequence() throws Exception {
         int port = freePort();
         String uri = "tcp://127.0.0.1:" + port;
-        Process broker = mosquitto(port);
+        Process broker = Night.ownMosquitto(port);
         List<JsonNode> seen = new ArrayList<>();
         try (TcpRelay relay = new TcpRelay(port);
              Night night = Night.start(folder, relay.uri(), false)) {
@@ -89,7 +87,7 @@ class BrokerOutageDuringAlarmStormTest {
             // Three oxygen channels on the silent module, one stale alarm each, every round.
             assertThat(raised).as("alarms raised while the broker was down").isGreaterThanOrEqualTo(3L * rounds);
 
-            broker = mosquitto(port);
+            broker = Night.ownMosquitto(port);
             long journaled = night.daemon.eventsAfter(0, 100_000).size();
             try (Subscriber after = new Subscriber(uri, night.prefix + "/#")) {
                 relay.accepting(true);
@@ -118,30 +116,4 @@ class BrokerOutageDuringAlarmStormTest {
     }
 
     // ---- helpers ----
-
-    private static JsonNode json(Subscriber.Message message) {
-        try {
-            return Payloads.JSON.readTree(message.text());
-        } catch (IOException e) {
-            throw new AssertionError(e);
-        }
-    }
-
-    /** A Mosquitto of the test's own on {@code port} (loopback only, without a configuration file). */
-    private static Process mosquitto(int port) throws Exception {
-        Process process = new ProcessBuilder("mosquitto", "-p", Integer.toString(port))
-                .redirectErrorStream(true).redirectOutput(ProcessBuilder.Redirect.DISCARD).start();
-        long deadline = System.nanoTime() + Duration.ofSeconds(10).toNanos();
-        while (!Night.listening(port) && System.nanoTime() < deadline && process.isAlive()) {
-            Thread.sleep(20);
-        }
-        assertThat(Night.listening(port)).as("mosquitto on port " + port).isTrue();
-        return process;
-    }
-
-    private static int freePort() throws IOException {
-        try (ServerSocket probe = new ServerSocket(0, 1, InetAddress.getLoopbackAddress())) {
-            return probe.getLocalPort();
-        }
-    }
 }

@@ -1,11 +1,10 @@
 package org.cryowarden.daemon.demo;
 
+import static org.cryowarden.daemon.LoopbackPort.freePort;
+import static org.cryowarden.daemon.demo.Subscriber.json;
 import static org.assertj.core.api.Assertions.assertThat;
 
 import com.fasterxml.jackson.databind.JsonNode;
-import java.io.IOException;
-import java.net.InetAddress;
-import java.net.ServerSocket;
 import java.nio.file.Path;
 import java.time.Duration;
 import java.util.ArrayList;
@@ -34,7 +33,7 @@ class BrokerRestartMidNightTest {
         int port = freePort();
         List<Long> seqs = new ArrayList<>();
         String uri = "tcp://127.0.0.1:" + port;
-        Process broker = mosquitto(port);
+        Process broker = Night.ownMosquitto(port);
         // The daemon reaches the broker through a relay, so the test can let it back in only once the
         // dashboard, connected straight to the restarted broker, listens: the dashboard then sees everything.
         try (TcpRelay relay = new TcpRelay(port);
@@ -67,7 +66,7 @@ class BrokerRestartMidNightTest {
             command(night, "unshelve", "o2-magnet-hall-east-stale", Optional.empty());
             night.steps(30);
 
-            broker = mosquitto(port);
+            broker = Night.ownMosquitto(port);
             try (Subscriber after = new Subscriber(uri, night.prefix + "/#")) {
                 relay.accepting(true);
                 night.stepUntil(night.daemon::mqttConnected, 3000);
@@ -111,31 +110,5 @@ class BrokerRestartMidNightTest {
     private static String kind(Subscriber.Message message) {
         JsonNode event = json(message);
         return event.path("kind").asText() + " " + event.path("subject").asText();
-    }
-
-    private static JsonNode json(Subscriber.Message message) {
-        try {
-            return Payloads.JSON.readTree(message.text());
-        } catch (IOException e) {
-            throw new AssertionError(e);
-        }
-    }
-
-    /** A Mosquitto of the test's own on {@code port} (loopback only, without a configuration file). */
-    private static Process mosquitto(int port) throws Exception {
-        Process process = new ProcessBuilder("mosquitto", "-p", Integer.toString(port))
-                .redirectErrorStream(true).redirectOutput(ProcessBuilder.Redirect.DISCARD).start();
-        long deadline = System.nanoTime() + Duration.ofSeconds(10).toNanos();
-        while (!Night.listening(port) && System.nanoTime() < deadline && process.isAlive()) {
-            Thread.sleep(20);
-        }
-        assertThat(Night.listening(port)).as("mosquitto on port " + port).isTrue();
-        return process;
-    }
-
-    private static int freePort() throws IOException {
-        try (ServerSocket probe = new ServerSocket(0, 1, InetAddress.getLoopbackAddress())) {
-            return probe.getLocalPort();
-        }
     }
 }

@@ -1,5 +1,6 @@
 package org.cryowarden.daemon.demo;
 
+import static org.cryowarden.daemon.demo.Subscriber.json;
 import static org.assertj.core.api.Assertions.assertThat;
 import static org.assertj.core.api.Assumptions.assumeThat;
 
@@ -177,13 +178,5 @@ class JournalDiskFullTest {
         List<Subscriber.Message> messages = dashboard.on(topic);
         return messages.isEmpty() ? new Subscriber.Message(topic, "{}", false, new byte[0])
                 : messages.get(messages.size() - 1);
-    }
-
-    private static JsonNode json(Subscriber.Message message) {
-        try {
-            return Payloads.JSON.readTree(message.text());
-        } catch (IOException e) {
-            throw new AssertionError(e);
-        }
     }
 }

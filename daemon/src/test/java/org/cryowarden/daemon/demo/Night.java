@@ -156,6 +156,18 @@ final class Night implements AutoCloseable {
         assertThat(listening(1883)).as("Mosquitto on 127.0.0.1:1883").isTrue();
     }
 
+    /** A Mosquitto of the test's own on {@code port} (loopback only, without a configuration file). */
+    static Process ownMosquitto(int port) throws Exception {
+        Process process = new ProcessBuilder("mosquitto", "-p", Integer.toString(port))
+                .redirectErrorStream(true).redirectOutput(ProcessBuilder.Redirect.DISCARD).start();
+        long deadline = System.nanoTime() + Duration.ofSeconds(10).toNanos();
+        while (!listening(port) && System.nanoTime() < deadline && process.isAlive()) {
+            Thread.sleep(20);
+        }
+        assertThat(listening(port)).as("mosquitto on port " + port).isTrue();
+        return process;
+    }
+
     static boolean listening(int port) {
         try (Socket socket = new Socket(InetAddress.getLoopbackAddress(), port)) {
             return true;

@@ -1,12 +1,12 @@
 package org.cryowarden.daemon.demo;
 
+import static org.cryowarden.daemon.demo.Subscriber.json;
 import static org.assertj.core.api.Assertions.assertThat;
 
 import com.fasterxml.jackson.databind.JsonNode;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.time.Duration;
-import org.cryowarden.daemon.run.Payloads;
 import org.cryowarden.simulator.Endpoint;
 import org.junit.jupiter.api.BeforeAll;
 import org.junit.jupiter.api.Test;
@@ -55,9 +55,5 @@ class PtyNightOnMosquittoTest {
 
     private static boolean good(Subscriber subscriber, String topic) {
         return subscriber.on(topic).stream().anyMatch(m -> m.text().contains("\"quality\":\"good\""));
-    }
-
-    private static JsonNode json(Subscriber.Message message) throws Exception {
-        return Payloads.JSON.readTree(message.text());
     }
 }

@@ -1,5 +1,6 @@
 package org.cryowarden.daemon.demo;
 
+import static org.cryowarden.daemon.demo.Subscriber.json;
 import static org.assertj.core.api.Assertions.assertThat;
 
 import com.fasterxml.jackson.databind.JsonNode;
@@ -15,7 +16,6 @@ import java.util.UUID;
 import java.util.function.BooleanSupplier;
 import org.cryowarden.daemon.run.Daemon;
 import org.cryowarden.daemon.run.DaemonSettings;
-import org.cryowarden.daemon.run.Payloads;
 import org.cryowarden.daemon.run.SiteSetup;
 import org.cryowarden.drivers.plugin.DriverCatalog;
 import org.cryowarden.rules.VirtualTimeSource;
@@ -156,10 +156,6 @@ class QuenchNightOnMosquittoTest {
             Thread.sleep(5); // real time for the broker round trip; the simulated clock moves only by steps
         }
         assertThat(done.getAsBoolean()).as("condition within " + maxSteps + " steps").isTrue();
-    }
-
-    private static JsonNode json(Subscriber.Message message) throws Exception {
-        return Payloads.JSON.readTree(message.text());
     }
 
     private static boolean listening(int port) {

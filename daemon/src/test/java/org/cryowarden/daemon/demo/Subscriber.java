@@ -19,6 +19,15 @@ final class Subscriber implements AutoCloseable {
     record Message(String topic, String text, boolean retained, byte[] correlation) {
     }
 
+    /** The payload of {@code message} as JSON; a payload that is not JSON fails the test. */
+    static com.fasterxml.jackson.databind.JsonNode json(Message message) {
+        try {
+            return org.cryowarden.daemon.run.Payloads.JSON.readTree(message.text());
+        } catch (java.io.IOException e) {
+            throw new AssertionError("not JSON on " + message.topic() + ": " + message.text(), e);
+        }
+    }
+
     private final MqttClient client;
     private final String filter;
     final List<Message> received = new CopyOnWriteArrayList<>();

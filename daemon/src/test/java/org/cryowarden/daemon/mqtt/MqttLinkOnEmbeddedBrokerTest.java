@@ -1,7 +1,6 @@
 package org.cryowarden.daemon.mqtt;
 
-import java.io.IOException;
-import java.net.ServerSocket;
+import static org.cryowarden.daemon.LoopbackPort.freePort;
 import java.time.Duration;
 import org.cryowarden.daemon.broker.EmbeddedBroker;
 import org.cryowarden.daemon.broker.PortChoice;
@@ -28,12 +27,6 @@ class MqttLinkOnEmbeddedBrokerTest extends MqttLinkContract {
     @Override
     int brokerPort() {
         return broker.port();
-    }
-
-    private static int freePort() throws IOException {
-        try (ServerSocket socket = new ServerSocket(0)) {
-            return socket.getLocalPort();
-        }
     }
 
     @Override

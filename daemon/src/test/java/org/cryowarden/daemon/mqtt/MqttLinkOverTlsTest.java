@@ -1,11 +1,11 @@
 package org.cryowarden.daemon.mqtt;
 
+import static org.cryowarden.daemon.LoopbackPort.freePort;
 import static org.assertj.core.api.Assertions.assertThat;
 import static org.assertj.core.api.Assertions.assertThatThrownBy;
 
 import java.io.IOException;
 import java.net.InetAddress;
-import java.net.ServerSocket;
 import java.net.Socket;
 import java.nio.file.Files;
 import java.nio.file.Path;
@@ -198,12 +198,6 @@ class MqttLinkOverTlsTest {
         List<String> folders = new ArrayList<>(List.of(System.getenv().getOrDefault("PATH", "").split(":")));
         folders.add("/usr/sbin");
         return folders.stream().anyMatch(f -> Files.isExecutable(Path.of(f, program)));
-    }
-
-    private static int freePort() throws IOException {
-        try (ServerSocket socket = new ServerSocket(0, 1, InetAddress.getLoopbackAddress())) {
-            return socket.getLocalPort();
-        }
     }
 
     private static boolean listening(int port) {
