@@ -84,8 +84,8 @@ final class ModbusRtuInstrument implements InstrumentDriver {
     }
 
     private Reading read(ModbusPoint point, Unit unit, Transport transport) throws IOException {
-        ModbusReply reply = client(transport).transact(readRequest(point), config.timeout(), config.retries()).reply();
-        counters.increment(reply.counterKey());
+        ModbusReply reply = counted(client(transport).transact(readRequest(point), config.timeout(),
+                config.retries()));
         if (!(reply instanceof ModbusReply.Values values)) {
             boolean silent = reply instanceof ModbusReply.Fault fault && fault.fault() == FrameFault.NO_REPLY;
             return new Reading(point.id(), Double.NaN, unit, context.time().wallNow(),
@@ -130,13 +130,11 @@ final class ModbusRtuInstrument implements InstrumentDriver {
                     ? ModbusRequest.writeSingleRegister(config.unit(), point.address(), registers[0])
                     : ModbusRequest.writeMultipleRegisters(config.unit(), point.address(), registers);
         }
-        ModbusReply reply = modbus.transact(request, config.timeout(), config.retries()).reply();
-        counters.increment(reply.counterKey());
+        ModbusReply reply = counted(modbus.transact(request, config.timeout(), config.retries()));
         if (!reply.isOk()) {
             return WriteResult.failed(output, value, reply.reason());
         }
-        ModbusReply back = modbus.transact(readRequest(point), config.timeout(), config.retries()).reply();
-        counters.increment(back.counterKey());
+        ModbusReply back = counted(modbus.transact(readRequest(point), config.timeout(), config.retries()));
         if (!(back instanceof ModbusReply.Values values)) {
             return new WriteResult(output, value, OptionalDouble.empty(), false, "write confirmed but readback failed: "
                     + back.reason());
@@ -157,6 +155,21 @@ final class ModbusRtuInstrument implements InstrumentDriver {
     @Override
     public Map<String, Long> counters() {
         return counters.snapshot();
+    }
+
+    /**
+     * The exchange's outcome, counted under its key; frames from other units discarded on the way (late replies
+     * of a neighbour) are counted as "foreign_frame", so a slow neighbour shows on this line's counters.
+     */
+    private ModbusReply counted(ModbusClient.Exchange exchange) {
+        for (ModbusClient.Attempt attempt : exchange.attempts()) {
+            for (int i = 0; i < attempt.foreignUnits().size(); i++) {
+                counters.increment("foreign_frame");
+            }
+        }
+        ModbusReply reply = exchange.reply();
+        counters.increment(reply.counterKey());
+        return reply;
     }
 
     /** The request that reads a point: its table's read function over its registers or bits. */
