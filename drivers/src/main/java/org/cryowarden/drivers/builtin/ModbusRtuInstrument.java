@@ -69,8 +69,17 @@ final class ModbusRtuInstrument implements InstrumentDriver {
         return readings;
     }
 
+    /**
+     * Reads the channels' points one request each. Once the unit has not answered one within its timeout, the
+     * rest of this poll's points are not asked and read STALE with that reason: a unit slower than its timeout
+     * sends its late reply while the master waits for the next one, and RTU frames carry no transaction number,
+     * so a late reply of the same layout would be taken for the answer about another register (Modbus over Serial
+     * Line V1.02, §2.4.1, the response time-out). Skipping also leaves the line to the neighbours instead of
+     * spending a timeout on every point of a silent unit.
+     */
     @Override
     public void poll(List<String> channels, Transport transport, Consumer<Reading> each) throws IOException {
+        Optional<String> silent = Optional.empty();
         for (String channel : channels) {
             ModbusPoint point = config.points().get(channel);
             Unit unit = context.unitOf(channel);
@@ -79,7 +88,17 @@ final class ModbusRtuInstrument implements InstrumentDriver {
                         + "' has no input point for channel '" + channel + "'"));
                 continue;
             }
-            each.accept(read(point, unit, transport));
+            if (silent.isPresent()) {
+                counters.increment("not_asked");
+                each.accept(Reading.stale(channel, unit, context.time().wallNow(), silent.get()
+                        + "; not asked for " + readRequest(point).describe() + " until the next poll"));
+                continue;
+            }
+            Reading reading = read(point, unit, transport);
+            if (reading.quality() == Quality.STALE) { // read() gives STALE for no reply only
+                silent = Optional.of(reading.reason());
+            }
+            each.accept(reading);
         }
     }
 

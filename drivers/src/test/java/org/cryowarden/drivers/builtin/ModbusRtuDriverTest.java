@@ -136,6 +136,28 @@ class ModbusRtuDriverTest {
     }
 
     @Test
+    void unitThatDidNotAnswerIsNotAskedForItsOtherPointsInTheSamePoll() throws Exception {
+        // A late reply would come in while the next point is asked, and RTU frames carry no transaction number
+        // (Modbus over Serial Line V1.02, §2.4.1): the rest of the poll is not asked and reads STALE.
+        ModbusTestDevice device = new ModbusTestDevice(4).input(0, 12_000);
+        device.behave(ModbusTestDevice.Behaviour.SILENT);
+        InstrumentDriver driver = factory.create(instrument(), context);
+        ScriptedTransport transport = open(device);
+
+        List<Reading> readings = driver.poll(List.of("o2-east", "ln2-level"), transport);
+
+        assertThat(readings).extracting(Reading::quality).containsExactly(Quality.STALE, Quality.STALE);
+        assertThat(readings.get(1).reason()).isEqualTo("no reply from unit 4 within 100 ms to read input registers 0 "
+                + "at unit 4; not asked for read holding registers 300+2 at unit 4 until the next poll");
+        assertThat(transport.written()).hasSize(3); // the first point and its 2 retries, nothing for the second
+        assertThat(driver.counters()).containsEntry("timeout", 1L).containsEntry("not_asked", 1L);
+
+        device.behave(ModbusTestDevice.Behaviour.ANSWER);
+        assertThat(driver.poll(List.of("o2-east", "ln2-level"), transport).get(0).quality()).isEqualTo(Quality.GOOD);
+        assertThat(transport.written()).hasSize(5); // both points asked again at the next poll
+    }
+
+    @Test
     void neighboursLateReplyAheadOfTheOwnIsCountedAsForeignAndTheReadingIsGood() throws Exception {
         // A neighbour (unit 3) answers late: its valid frame comes in just ahead of unit 4's own reply, in the same
         // chunk. Not unit 4's fault (Modbus over Serial Line V1.02 §2.4.1: only the addressed slave replies).
