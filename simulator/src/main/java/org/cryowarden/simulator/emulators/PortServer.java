@@ -14,6 +14,7 @@ import java.util.concurrent.ConcurrentHashMap;
 import java.util.concurrent.DelayQueue;
 import java.util.concurrent.Delayed;
 import java.util.concurrent.TimeUnit;
+import java.util.concurrent.atomic.AtomicInteger;
 import java.util.concurrent.atomic.AtomicLong;
 import java.util.function.Supplier;
 import org.cryowarden.drivers.modbus.ModbusRequest;
@@ -277,7 +278,7 @@ public final class PortServer implements AutoCloseable {
         private final DelayQueue<Outgoing> outbox = new DelayQueue<>();
         private final AtomicLong queued = new AtomicLong();
         /** Queued or being sent; goes down only once the bytes are out. */
-        private final java.util.concurrent.atomic.AtomicInteger unsent = new java.util.concurrent.atomic.AtomicInteger();
+        private final AtomicInteger unsent = new AtomicInteger();
 
         Connection(Socket socket) throws IOException {
             this.socket = socket;
