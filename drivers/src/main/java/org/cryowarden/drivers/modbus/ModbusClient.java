@@ -121,8 +121,9 @@ public final class ModbusClient {
         List<Integer> foreign = new ArrayList<>();
         while (true) {
             long remaining = deadline - clock.nanos();
-            RtuFrame frame = remaining > 0 ? reader.read(transport, (buffer, length) ->
-                    ModbusMasterCodec.replyLength(request, buffer, length), Duration.ofNanos(remaining))
+            // Bytes that came in behind a discarded frame started before the deadline: they are read regardless.
+            RtuFrame frame = remaining > 0 || reader.hasPending() ? reader.read(transport, (buffer, length) ->
+                    ModbusMasterCodec.replyLength(request, buffer, length), Duration.ofNanos(Math.max(0, remaining)))
                     : new RtuFrame(new byte[0], RtuFrame.Ending.NO_REPLY);
             long end = clock.nanos();
             lastActivityNanos = end;

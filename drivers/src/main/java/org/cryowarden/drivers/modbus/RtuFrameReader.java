@@ -74,6 +74,11 @@ public final class RtuFrameReader {
         }
     }
 
+    /** True when bytes from behind the last frame wait to be read as the start of the next. */
+    public boolean hasPending() {
+        return pending.length > 0;
+    }
+
     /** Drops the bytes kept from behind the last frame (stale input before a new request); returns how many. */
     public int discardPending() {
         int count = pending.length;

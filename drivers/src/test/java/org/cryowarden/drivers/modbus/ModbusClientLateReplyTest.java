@@ -71,6 +71,21 @@ class ModbusClientLateReplyTest {
     }
 
     @Test
+    void ownReplyBehindADiscardedFrameIsTakenEvenWhenTheChunkEndsRightAtTheTimeout() throws Exception {
+        byte[] both = new byte[LATE_FROM_UNIT_3.length + FAN_ON.length];
+        System.arraycopy(LATE_FROM_UNIT_3, 0, both, 0, LATE_FROM_UNIT_3.length);
+        System.arraycopy(FAN_ON, 0, both, LATE_FROM_UNIT_3.length, FAN_ON.length);
+        // The chunk's last character lands exactly 300 ms after the request: unit 7's reply started in time.
+        Duration after = TIMEOUT.minusNanos(both.length * line.nanosPerCharacter());
+        line.answering(request -> List.of(new SimulatedLine.Reply(after, both)));
+
+        ModbusClient.Exchange exchange = master.transact(READ_FAN, TIMEOUT, 0);
+
+        assertThat(exchange.reply().isOk()).as(exchange.reply().reason()).isTrue();
+        assertThat(exchange.last().foreignUnits()).containsExactly(3);
+    }
+
+    @Test
     void repliesFromSeveralOtherUnitsAreAllDiscardedAndNamedWhenTheOwnNeverComes() throws Exception {
         byte[] exceptionFromUnit9 = ModbusSlaveCodec.encodeException(9, 0x03, ExceptionCode.SERVER_DEVICE_BUSY);
         line.answering(request -> List.of(new SimulatedLine.Reply(Duration.ofMillis(40), LATE_FROM_UNIT_3),
