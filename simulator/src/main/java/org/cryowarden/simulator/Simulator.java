@@ -278,17 +278,25 @@ public final class Simulator implements AutoCloseable {
 
         @Override
         public void setPortDisconnected(String instrumentId, boolean down) throws IOException {
-            String portId = portOfInstrument.get(instrumentId);
-            PortServer server = servers.get(portId);
-            if (server != null) {
-                server.setDisconnected(down);
-            }
-            PtyBridge bridge = bridges.get(portId);
-            if (bridge != null) {
-                bridge.setSuspended(down);
-            }
+            Simulator.this.setPortDisconnected(portOfInstrument.get(instrumentId), down);
         }
     };
+
+    /**
+     * The timeline's {@code disconnect} fault for a whole port, for tests that script it themselves: the line's
+     * device server drops every connection and refuses new ones, and its pseudo-terminal, if any, disappears (a
+     * USB adapter pulled); {@code false} brings both back, the pseudo-terminal on the same link path.
+     */
+    public void setPortDisconnected(String portId, boolean down) throws IOException {
+        PortServer server = servers.get(portId);
+        if (server != null) {
+            server.setDisconnected(down);
+        }
+        PtyBridge bridge = bridges.get(portId);
+        if (bridge != null) {
+            bridge.setSuspended(down);
+        }
+    }
 
     private void track(PlantState after) {
         for (RoomState room : after.rooms()) {
@@ -324,6 +332,14 @@ public final class Simulator implements AutoCloseable {
     /** The emulator of a port, once started, for tests that look at its counters. */
     public Optional<PortServer> port(String portId) {
         return Optional.ofNullable(servers.get(portId));
+    }
+
+    /**
+     * The pseudo-terminal of a port, once started, for tests that pull only the USB adapter while the instruments
+     * behind it stay powered ({@link PtyBridge#setSuspended}).
+     */
+    public Optional<PtyBridge> pty(String portId) {
+        return Optional.ofNullable(bridges.get(portId));
     }
 
     /** The timeline events applied so far, as "HH:MM:SS action target". */

@@ -102,14 +102,26 @@ final class OutputWriter implements AutoCloseable {
                 writes.incrementAndGet();
                 disagreement.ifPresent(d -> {
                     failures.incrementAndGet();
-                    LOG.error("output {} := {} for interlock {}: {}", command.outputId(), command.value(),
-                            command.interlockId(), d);
+                    LOG.error("output {} := {} for {}: {}", command.outputId(), command.value(), drivenBy(command),
+                            d);
                 });
                 results.accept(command.outputId(), disagreement);
             } finally {
                 busy = false;
             }
         }
+    }
+
+    /**
+     * What asked for the write, for the log: the common-alarm contact by name, otherwise the engine's own cause,
+     * which starts with the interlock or fill controller it comes from ("interlock X tripped by Y", "fill F
+     * opened: ...").
+     */
+    static String drivenBy(OutputCommand command) {
+        if (command.interlockId().equals(CommonAlarmContact.SOURCE)) {
+            return "the common-alarm contact (" + command.cause() + ")";
+        }
+        return command.cause();
     }
 
     private Optional<String> execute(OutputCommand command) {

@@ -69,8 +69,17 @@ final class ModbusRtuInstrument implements InstrumentDriver {
         return readings;
     }
 
+    /**
+     * Reads the channels' points one request each. Once the unit has not answered one within its timeout, the
+     * rest of this poll's points are not asked and read STALE with that reason: a unit slower than its timeout
+     * sends its late reply while the master waits for the next one, and RTU frames carry no transaction number,
+     * so a late reply of the same layout would be taken for the answer about another register (Modbus over Serial
+     * Line V1.02, §2.4.1, the response time-out). Skipping also leaves the line to the neighbours instead of
+     * spending a timeout on every point of a silent unit.
+     */
     @Override
     public void poll(List<String> channels, Transport transport, Consumer<Reading> each) throws IOException {
+        Optional<String> silent = Optional.empty();
         for (String channel : channels) {
             ModbusPoint point = config.points().get(channel);
             Unit unit = context.unitOf(channel);
@@ -79,13 +88,23 @@ final class ModbusRtuInstrument implements InstrumentDriver {
                         + "' has no input point for channel '" + channel + "'"));
                 continue;
             }
-            each.accept(read(point, unit, transport));
+            if (silent.isPresent()) {
+                counters.increment("not_asked");
+                each.accept(Reading.stale(channel, unit, context.time().wallNow(), silent.get()
+                        + "; not asked for " + readRequest(point).describe() + " until the next poll"));
+                continue;
+            }
+            Reading reading = read(point, unit, transport);
+            if (reading.quality() == Quality.STALE) { // read() gives STALE for no reply only
+                silent = Optional.of(reading.reason());
+            }
+            each.accept(reading);
         }
     }
 
     private Reading read(ModbusPoint point, Unit unit, Transport transport) throws IOException {
-        ModbusReply reply = client(transport).transact(readRequest(point), config.timeout(), config.retries()).reply();
-        counters.increment(reply.counterKey());
+        ModbusReply reply = counted(client(transport).transact(readRequest(point), config.timeout(),
+                config.retries()));
         if (!(reply instanceof ModbusReply.Values values)) {
             boolean silent = reply instanceof ModbusReply.Fault fault && fault.fault() == FrameFault.NO_REPLY;
             return new Reading(point.id(), Double.NaN, unit, context.time().wallNow(),
@@ -130,13 +149,11 @@ final class ModbusRtuInstrument implements InstrumentDriver {
                     ? ModbusRequest.writeSingleRegister(config.unit(), point.address(), registers[0])
                     : ModbusRequest.writeMultipleRegisters(config.unit(), point.address(), registers);
         }
-        ModbusReply reply = modbus.transact(request, config.timeout(), config.retries()).reply();
-        counters.increment(reply.counterKey());
+        ModbusReply reply = counted(modbus.transact(request, config.timeout(), config.retries()));
         if (!reply.isOk()) {
             return WriteResult.failed(output, value, reply.reason());
         }
-        ModbusReply back = modbus.transact(readRequest(point), config.timeout(), config.retries()).reply();
-        counters.increment(back.counterKey());
+        ModbusReply back = counted(modbus.transact(readRequest(point), config.timeout(), config.retries()));
         if (!(back instanceof ModbusReply.Values values)) {
             return new WriteResult(output, value, OptionalDouble.empty(), false, "write confirmed but readback failed: "
                     + back.reason());
@@ -157,6 +174,21 @@ final class ModbusRtuInstrument implements InstrumentDriver {
     @Override
     public Map<String, Long> counters() {
         return counters.snapshot();
+    }
+
+    /**
+     * The exchange's outcome, counted under its key; frames from other units discarded on the way (late replies
+     * of a neighbour) are counted as "foreign_frame", so a slow neighbour shows on this line's counters.
+     */
+    private ModbusReply counted(ModbusClient.Exchange exchange) {
+        for (ModbusClient.Attempt attempt : exchange.attempts()) {
+            for (int i = 0; i < attempt.foreignUnits().size(); i++) {
+                counters.increment("foreign_frame");
+            }
+        }
+        ModbusReply reply = exchange.reply();
+        counters.increment(reply.counterKey());
+        return reply;
     }
 
     /** The request that reads a point: its table's read function over its registers or bits. */

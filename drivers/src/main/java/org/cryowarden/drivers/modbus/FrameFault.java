@@ -8,6 +8,10 @@ public enum FrameFault {
     NO_REPLY("timeout"),
     SHORT_FRAME("short_frame"),
     BAD_CRC("bad_crc"),
+    /**
+     * A valid frame from another unit. The master does not fail on it: it discards the frame, most likely a
+     * neighbour's late reply, and waits on for its own ({@link ModbusClient}, counted as "foreign_frame").
+     */
     WRONG_UNIT("wrong_unit"),
     WRONG_FUNCTION("wrong_function"),
     BAD_BYTE_COUNT("bad_byte_count"),

@@ -25,6 +25,9 @@ public final class ModbusMasterCodec {
             return -1;
         }
         int function = buffer[1] & 0xFF;
+        if ((buffer[0] & 0xFF) != request.unit()) {
+            return anyReplyLength(function, buffer, length);
+        }
         if (function == (request.function().code() | 0x80)) {
             return 5;
         }
@@ -35,6 +38,22 @@ public final class ModbusMasterCodec {
             return length < 3 ? -1 : 5 + (buffer[2] & 0xFF);
         }
         return 8;
+    }
+
+    /**
+     * The length of a reply from another unit (a neighbour's late reply), from its own function code, so that it
+     * can be cut off and the addressed unit's reply behind it still read: exception 5, reads 5 + byte count, single
+     * and multiple writes 8 (Application Protocol V1.1b3, §6.1-6.12 and §7); -1 when unknown or not yet known.
+     */
+    private static int anyReplyLength(int function, byte[] buffer, int length) {
+        if ((function & 0x80) != 0) {
+            return 5;
+        }
+        return switch (function) {
+            case 0x01, 0x02, 0x03, 0x04 -> length < 3 ? -1 : 5 + (buffer[2] & 0xFF);
+            case 0x05, 0x06, 0x0F, 0x10 -> 8;
+            default -> -1;
+        };
     }
 
     /** Classifies {@code length} bytes of {@code frame} received in answer to {@code request}. */

@@ -21,6 +21,8 @@ public final class RtuFrameReader {
     }
 
     private final Duration silence;
+    /** Bytes received behind the last complete frame: the start of the next one, read before the transport. */
+    private byte[] pending = new byte[0];
 
     /**
      * @param silence the silent interval that ends a frame: at least t3.5 of the line speed; longer for USB
@@ -37,17 +39,29 @@ public final class RtuFrameReader {
         return silence;
     }
 
-    /** Receives one frame, waiting at most {@code firstByteTimeout} for it to start. */
+    /**
+     * Receives one frame, waiting at most {@code firstByteTimeout} for it to start. Bytes that arrived behind a
+     * complete frame (the next frame, when two came in one chunk) are kept for the next call.
+     */
     public RtuFrame read(Transport transport, LengthRule rule, Duration firstByteTimeout) throws IOException {
         byte[] buffer = new byte[ModbusMasterCodec.MAX_FRAME + 1];
-        int length = transport.read(buffer, 0, buffer.length, firstByteTimeout);
+        int length;
+        if (pending.length > 0) {
+            // At most 256 bytes: what followed a frame in one buffer of 257.
+            length = pending.length;
+            System.arraycopy(pending, 0, buffer, 0, length);
+            pending = new byte[0];
+        } else {
+            length = transport.read(buffer, 0, buffer.length, firstByteTimeout);
+        }
         if (length == 0) {
             return new RtuFrame(new byte[0], RtuFrame.Ending.NO_REPLY);
         }
         while (true) {
             int expected = rule.frameLength(buffer, length);
             if (expected > 0 && length >= expected) {
-                return new RtuFrame(Arrays.copyOf(buffer, length), RtuFrame.Ending.COMPLETE);
+                pending = Arrays.copyOfRange(buffer, expected, length);
+                return new RtuFrame(Arrays.copyOf(buffer, expected), RtuFrame.Ending.COMPLETE);
             }
             if (length > ModbusMasterCodec.MAX_FRAME) {
                 return new RtuFrame(Arrays.copyOf(buffer, length), RtuFrame.Ending.OVERSIZED);
@@ -58,5 +72,17 @@ public final class RtuFrameReader {
             }
             length += more;
         }
+    }
+
+    /** True when bytes from behind the last frame wait to be read as the start of the next. */
+    public boolean hasPending() {
+        return pending.length > 0;
+    }
+
+    /** Drops the bytes kept from behind the last frame (stale input before a new request); returns how many. */
+    public int discardPending() {
+        int count = pending.length;
+        pending = new byte[0];
+        return count;
     }
 }

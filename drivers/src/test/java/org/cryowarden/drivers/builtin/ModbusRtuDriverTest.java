@@ -135,6 +135,53 @@ class ModbusRtuDriverTest {
                 "output 'exhaust-fan' of instrument 'gauge' must use table coil or holding; input is read-only");
     }
 
+    @Test
+    void unitThatDidNotAnswerIsNotAskedForItsOtherPointsInTheSamePoll() throws Exception {
+        // A late reply would come in while the next point is asked, and RTU frames carry no transaction number
+        // (Modbus over Serial Line V1.02, §2.4.1): the rest of the poll is not asked and reads STALE.
+        ModbusTestDevice device = new ModbusTestDevice(4).input(0, 12_000);
+        device.behave(ModbusTestDevice.Behaviour.SILENT);
+        InstrumentDriver driver = factory.create(instrument(), context);
+        ScriptedTransport transport = open(device);
+
+        List<Reading> readings = driver.poll(List.of("o2-east", "ln2-level"), transport);
+
+        assertThat(readings).extracting(Reading::quality).containsExactly(Quality.STALE, Quality.STALE);
+        assertThat(readings.get(1).reason()).isEqualTo("no reply from unit 4 within 100 ms to read input registers 0 "
+                + "at unit 4; not asked for read holding registers 300+2 at unit 4 until the next poll");
+        assertThat(transport.written()).hasSize(3); // the first point and its 2 retries, nothing for the second
+        assertThat(driver.counters()).containsEntry("timeout", 1L).containsEntry("not_asked", 1L);
+
+        device.behave(ModbusTestDevice.Behaviour.ANSWER);
+        assertThat(driver.poll(List.of("o2-east", "ln2-level"), transport).get(0).quality()).isEqualTo(Quality.GOOD);
+        assertThat(transport.written()).hasSize(5); // both points asked again at the next poll
+    }
+
+    @Test
+    void neighboursLateReplyAheadOfTheOwnIsCountedAsForeignAndTheReadingIsGood() throws Exception {
+        // A neighbour (unit 3) answers late: its valid frame comes in just ahead of unit 4's own reply, in the same
+        // chunk. Not unit 4's fault (Modbus over Serial Line V1.02 §2.4.1: only the addressed slave replies).
+        ModbusTestDevice device = new ModbusTestDevice(4).input(0, 12_000);
+        byte[] late = org.cryowarden.drivers.modbus.ModbusSlaveCodec.encodeReadResponse(
+                org.cryowarden.drivers.modbus.ModbusRequest.read(3,
+                        org.cryowarden.drivers.modbus.FunctionCode.READ_INPUT_REGISTERS, 0, 1), new int[] {17_440});
+        InstrumentDriver driver = factory.create(instrument(), context);
+        ScriptedTransport transport = open(request -> {
+            byte[] own = device.respond(request);
+            byte[] both = java.util.Arrays.copyOf(late, late.length + own.length);
+            System.arraycopy(own, 0, both, late.length, own.length);
+            return both;
+        });
+
+        Reading reading = driver.poll(List.of("o2-east"), transport).get(0);
+
+        // 12 mA on a 4-20 mA loop over 0-25 %vol is 12.5 %vol (linear scaling, common practice)
+        assertThat(reading.quality()).as(reading.reason()).isEqualTo(Quality.GOOD);
+        assertThat(reading.value()).isEqualTo(12.5);
+        assertThat(driver.counters()).containsEntry("foreign_frame", 1L).containsEntry("ok", 1L)
+                .doesNotContainKey("wrong_unit");
+    }
+
     private List<Reading> poll(ModbusTestDevice device, String channel) throws Exception {
         InstrumentDriver driver = factory.create(instrument(), context);
         return driver.poll(List.of(channel), open(device));
@@ -152,7 +199,7 @@ class ModbusRtuDriverTest {
         return instrument;
     }
 
-    private static ScriptedTransport open(ModbusTestDevice device) throws Exception {
+    private static ScriptedTransport open(ScriptedTransport.Responder device) throws Exception {
         ScriptedTransport transport = new ScriptedTransport(device, OptionalInt.of(115200));
         transport.reopen();
         return transport;

@@ -11,8 +11,10 @@ import java.util.List;
 import java.util.Optional;
 import java.util.Set;
 import java.util.concurrent.ConcurrentHashMap;
-import java.util.concurrent.LinkedBlockingQueue;
+import java.util.concurrent.DelayQueue;
+import java.util.concurrent.Delayed;
 import java.util.concurrent.TimeUnit;
+import java.util.concurrent.atomic.AtomicInteger;
 import java.util.concurrent.atomic.AtomicLong;
 import java.util.function.Supplier;
 import org.cryowarden.drivers.modbus.ModbusRequest;
@@ -36,7 +38,12 @@ import org.slf4j.LoggerFactory;
  * others stay silent as on a multidrop line, and bad frames are ignored (Modbus over Serial Line V1.02, §2.4.1).
  * SCPI lines go to the first instrument that knows the header (common commands to the first instrument). A
  * streaming device's lines go to every connection. Link faults (silence, garbage, bad CRC, slow replies) belong to
- * the instrument addressed; a disconnect drops the whole port. One thread accepts, one serves each connection.
+ * the instrument addressed; a disconnect drops the whole port. One thread accepts; each connection has one thread
+ * that reads and answers and one that puts the answers on the line, each at its own due time: a slow instrument's
+ * late reply is scheduled, not waited for, so a neighbour addressed meanwhile answers on time, as on a real
+ * multidrop line where each slave answers by itself (Modbus over Serial Line V1.02, §2.4.1). The line carries one
+ * frame at a time, with the t3.5 silence between frames ({@link SocketLink}): a reply due while another is being
+ * sent follows it (a real line would garble both; the master sees a late reply either way).
  */
 public final class PortServer implements AutoCloseable {
 
@@ -50,6 +57,8 @@ public final class PortServer implements AutoCloseable {
     private final Set<Connection> connections = ConcurrentHashMap.newKeySet();
     private final Object lock = new Object();
     private final AtomicLong ignoredFrames = new AtomicLong();
+    /** When the line last finished sending (System.nanoTime), for {@link #quietFor()}. */
+    private volatile long lastSentNanos = System.nanoTime();
     private volatile ServerSocket server;
     private volatile boolean disconnected;
     private volatile boolean closed;
@@ -143,6 +152,20 @@ public final class PortServer implements AutoCloseable {
     /** Frames that were not answered because they were malformed (bad CRC, short, wrong length). */
     public long ignoredFrames() {
         return ignoredFrames.get();
+    }
+
+    /**
+     * How long the line has carried nothing from the instruments: zero while a reply is scheduled or being sent
+     * (a slow instrument's late reply included), else the time since the last one ended. Lets a test that drives
+     * a virtual clock leave the real time a late reply takes, as the real second between two polls would.
+     */
+    public Duration quietFor() {
+        for (Connection connection : connections) {
+            if (connection.sending()) {
+                return Duration.ZERO;
+            }
+        }
+        return Duration.ofNanos(Math.max(0, System.nanoTime() - lastSentNanos));
     }
 
     public boolean isDisconnected() {
@@ -252,7 +275,10 @@ public final class PortServer implements AutoCloseable {
     private final class Connection {
         private final Socket socket;
         private final SocketLink link;
-        private final LinkedBlockingQueue<Outgoing> outbox = new LinkedBlockingQueue<>(256);
+        private final DelayQueue<Outgoing> outbox = new DelayQueue<>();
+        private final AtomicLong queued = new AtomicLong();
+        /** Queued or being sent; goes down only once the bytes are out. */
+        private final AtomicInteger unsent = new AtomicInteger();
 
         Connection(Socket socket) throws IOException {
             this.socket = socket;
@@ -265,15 +291,21 @@ public final class PortServer implements AutoCloseable {
             Thread reader = new Thread(this::serve, "sim-conn " + spec.id() + " " + socket.getRemoteSocketAddress());
             reader.setDaemon(true);
             reader.start();
-            if (protocol == Protocol.LINE) {
-                Thread writer = new Thread(this::drainOutbox, "sim-stream " + spec.id());
-                writer.setDaemon(true);
-                writer.start();
-            }
+            Thread writer = new Thread(this::drainOutbox, "sim-line " + spec.id());
+            writer.setDaemon(true);
+            writer.start();
         }
 
+        boolean sending() {
+            return unsent.get() > 0;
+        }
+
+        /** Queues bytes for the line, to go out no sooner than {@code notBeforeNanos}; at most 256 wait. */
         void enqueue(byte[] bytes, long notBeforeNanos) {
-            outbox.offer(new Outgoing(bytes, notBeforeNanos));
+            if (outbox.size() < 256) {
+                unsent.incrementAndGet();
+                outbox.offer(new Outgoing(bytes, notBeforeNanos, queued.incrementAndGet()));
+            }
         }
 
         private void serve() {
@@ -382,8 +414,8 @@ public final class PortServer implements AutoCloseable {
             }
         }
 
-        /** Sends a reply as the instrument's faults allow. */
-        private void reply(Instrument instrument, byte[] bytes, boolean modbus) throws IOException {
+        /** Schedules a reply as the instrument's faults allow: now, or after its slow fault's delay. */
+        private void reply(Instrument instrument, byte[] bytes, boolean modbus) {
             if (instrument.fault(FaultKind.SILENCE).isPresent()) {
                 return;
             }
@@ -397,30 +429,22 @@ public final class PortServer implements AutoCloseable {
                 out = bytes.clone();
                 out[out.length - 1] ^= (byte) 0xFF;
             }
-            Optional<Fault> slow = instrument.fault(FaultKind.SLOW);
-            if (slow.isPresent()) {
-                try {
-                    Thread.sleep(slow.get().delay().toMillis());
-                } catch (InterruptedException e) {
-                    Thread.currentThread().interrupt();
-                    return;
-                }
-            }
-            link.write(out);
+            long delay = instrument.fault(FaultKind.SLOW).map(slow -> slow.delay().toNanos()).orElse(0L);
+            enqueue(out, System.nanoTime() + delay);
         }
 
         private void drainOutbox() {
             try {
                 while (!closed && !socket.isClosed()) {
-                    Outgoing next = outbox.poll(500, TimeUnit.MILLISECONDS);
-                    if (next == null) {
-                        continue;
+                    Outgoing next = outbox.poll(500, TimeUnit.MILLISECONDS); // the earliest once it is due
+                    if (next != null) {
+                        try {
+                            link.write(next.bytes);
+                        } finally {
+                            lastSentNanos = System.nanoTime();
+                            unsent.decrementAndGet();
+                        }
                     }
-                    long wait = next.notBefore - System.nanoTime();
-                    if (wait > 0) {
-                        TimeUnit.NANOSECONDS.sleep(wait);
-                    }
-                    link.write(next.bytes);
                 }
             } catch (IOException | InterruptedException e) {
                 close();
@@ -433,6 +457,18 @@ public final class PortServer implements AutoCloseable {
         }
     }
 
-    private record Outgoing(byte[] bytes, long notBefore) {
+    /** Bytes for the line and when they are due; earlier first, then in the order queued. */
+    private record Outgoing(byte[] bytes, long notBefore, long order) implements Delayed {
+        @Override
+        public long getDelay(TimeUnit unit) {
+            return unit.convert(notBefore - System.nanoTime(), TimeUnit.NANOSECONDS);
+        }
+
+        @Override
+        public int compareTo(Delayed other) {
+            Outgoing that = (Outgoing) other;
+            int byTime = Long.compare(notBefore - that.notBefore, 0);
+            return byTime != 0 ? byTime : Long.compare(order, that.order);
+        }
     }
 }

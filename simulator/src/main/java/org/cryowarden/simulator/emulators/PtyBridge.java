@@ -65,6 +65,9 @@ public final class PtyBridge implements AutoCloseable {
     private void launch() throws IOException {
         List<String> command = List.of("socat", "pty,raw,echo=0,link=" + link, "tcp:" + host + ":" + tcpPort);
         synchronized (lock) {
+            if (suspended || closed) {
+                return; // taken away between the supervisor's check and here
+            }
             try {
                 process = new ProcessBuilder(command).redirectErrorStream(true)
                         .redirectOutput(ProcessBuilder.Redirect.DISCARD).start();
@@ -99,19 +102,31 @@ public final class PtyBridge implements AutoCloseable {
         }
     }
 
-    /** Takes the pty away (a vanished USB adapter) or brings it back. */
+    /**
+     * Takes the pty away (a vanished USB adapter: socat ends and its link is gone when this returns, within a
+     * bound of 2 s) or lets the supervisor bring it back on the same link path within about 200 ms.
+     */
     public void setSuspended(boolean down) {
-        suspended = down;
-        if (down) {
-            stopProcess();
-        }
-    }
-
-    private void stopProcess() {
+        Process current;
         synchronized (lock) {
-            if (process != null) {
-                process.destroy();
+            suspended = down;
+            current = down ? process : null;
+        }
+        if (current == null) {
+            return;
+        }
+        current.destroy();
+        try {
+            if (!current.waitFor(2, java.util.concurrent.TimeUnit.SECONDS)) {
+                current.destroyForcibly();
             }
+        } catch (InterruptedException e) {
+            Thread.currentThread().interrupt();
+        }
+        try {
+            Files.deleteIfExists(link);
+        } catch (IOException e) {
+            LOG.warn("cannot remove the pseudo-terminal link {}: {}", link, e.getMessage());
         }
     }
 

@@ -13,8 +13,10 @@ import org.cryowarden.drivers.spi.Transport;
 /**
  * The instrument's end of one TCP connection, as a drivers {@link Transport} so the drivers' RTU frame reader can
  * cut requests out of it. Writes can be paced at a line speed, so a master sees the timing of a real serial line:
- * a character is handed over only once its {@code bits} bits have taken their time at the baud rate, and a reply
- * starts no sooner than the turnaround silence (t3.5 for Modbus RTU) after the last character received.
+ * a character is handed over only once its {@code bits} bits have taken their time at the baud rate, and a frame
+ * starts no sooner than the turnaround silence (t3.5 for Modbus RTU) after the last character received or sent,
+ * so two replies written back to back are still two frames (Modbus over Serial Line V1.02, §2.5.1.1). Writes come
+ * from one thread at a time; reads from another.
  */
 final class SocketLink implements Transport {
 
@@ -24,7 +26,9 @@ final class SocketLink implements Transport {
     private final long nanosPerByte;
     private final long turnaroundNanos;
     /** When the last character came in, for the turnaround silence; MIN_VALUE before any. */
-    private long lastReceived = Long.MIN_VALUE;
+    private volatile long lastReceived = Long.MIN_VALUE;
+    /** When the last character went out, for the silence between frames; MIN_VALUE before any. */
+    private long lastSent = Long.MIN_VALUE;
 
     /**
      * @param turnaround the silence kept after the last received character before replying, when paced (t3.5 for
@@ -52,8 +56,12 @@ final class SocketLink implements Transport {
             return;
         }
         long due = System.nanoTime();
-        if (lastReceived != Long.MIN_VALUE && lastReceived + turnaroundNanos - due > 0) {
-            due = lastReceived + turnaroundNanos;
+        long received = lastReceived;
+        if (received != Long.MIN_VALUE && received + turnaroundNanos - due > 0) {
+            due = received + turnaroundNanos;
+        }
+        if (lastSent != Long.MIN_VALUE && lastSent + turnaroundNanos - due > 0) {
+            due = lastSent + turnaroundNanos;
         }
         for (byte b : bytes) {
             // A character has arrived only once its last bit is on the line: wait out its time, then hand it over.
@@ -62,6 +70,7 @@ final class SocketLink implements Transport {
             out.write(b);
             out.flush();
         }
+        lastSent = due;
     }
 
     private static void waitUntil(long due) {
