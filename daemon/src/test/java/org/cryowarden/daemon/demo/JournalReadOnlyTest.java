@@ -24,6 +24,7 @@ import org.cryowarden.daemon.journal.ImmutableFiles;
 import org.cryowarden.daemon.journal.Journal;
 import org.cryowarden.daemon.journal.JournalEvent;
 import org.cryowarden.daemon.journal.JournalSettings;
+import org.cryowarden.daemon.mqtt.TcpRelay;
 import org.cryowarden.daemon.run.Payloads;
 import org.cryowarden.simulator.emulators.Instrument;
 import org.junit.jupiter.api.AfterEach;
@@ -134,5 +135,46 @@ class JournalReadOnlyTest {
         } finally {
             historyLog.detachAppender(history);
         }
+    }
+
+    @Test
+    void eventsDeliveredWhileTheJournalCannotMarkThemAreNotSentAgain() throws Exception {
+        Path journalFolder = Files.createDirectories(folder.resolve("journal"));
+        try (TcpRelay relay = new TcpRelay(1883);
+             Night night = Night.start(folder, relay.uri(), false, journalFolder.resolve("journal.db"));
+             Subscriber dashboard = new Subscriber(Night.MOSQUITTO, night.prefix + "/#")) {
+            Instrument aim = night.simulator.instrument("aim-1").orElseThrow();
+            night.stepUntil(night.daemon::acceptingCommands, 100);
+            night.steps(20);
+            // The broker out of reach: the stale alarms are recorded and wait in the outbox.
+            relay.accepting(false);
+            relay.breakConnections();
+            night.stepUntil(() -> !night.daemon.mqttConnected(), 100);
+            toggle(night, aim);
+            long waiting = night.daemon.eventsAfter(0, 100_000).size();
+
+            immutable.freeze(journalFolder);
+            relay.accepting(true);
+            night.stepUntil(() -> recorded(dashboard, night.prefix).stream().mapToLong(Long::longValue).max()
+                    .orElse(0) >= waiting, 3000);
+            // More events while read-only: each batch wakes the outbox sender, which must not repeat the window
+            // it could not mark delivered.
+            toggle(night, aim);
+            immutable.close();
+            toggle(night, aim);
+            night.stepUntil(() -> recordedAgain(night), 100);
+
+            List<Long> seqs = recorded(dashboard, night.prefix);
+            assertThat(seqs).as("event seqs on the dashboard").doesNotHaveDuplicates()
+                    .contains(waiting);
+            System.out.printf("journal read-only with %d events in the outbox: %d published once each%n", waiting,
+                    seqs.size());
+        }
+    }
+
+    /** The seqs of the recorded events the dashboard received, in order of arrival. */
+    private static List<Long> recorded(Subscriber dashboard, String prefix) {
+        return dashboard.on(prefix + "/event").stream().map(Subscriber::json).filter(e -> e.has("seq"))
+                .map(e -> e.path("seq").asLong()).toList();
     }
 }
