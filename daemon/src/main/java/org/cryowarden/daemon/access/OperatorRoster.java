@@ -18,12 +18,17 @@ import org.cryowarden.rules.model.SiteDef;
  *   grace: {role: supervisor, token_hash: "sha256:..."}
  *   alan:  {role: viewer}
  * </pre>
- * A site without the section keeps the older rules ({@link #legacy()}): HTTP writes need the single token of
- * {@code api.token_file}, and MQTT commands are as trusted as the broker's ACL on the command topic; the daemon
- * warns at startup. Listing operators turns the checks on for both paths. The token hash is optional; an operator
- * without one cannot use the HTTP API but may still be named in an MQTT command.
+ * Every command names an operator and is checked against this list, on MQTT and HTTP alike. A site without the
+ * section ({@link #none()}) fails closed: every command is refused with {@link #NO_OPERATORS}, which says how to
+ * fix it, and the daemon and {@code check} warn. The token hash is optional; an operator without one cannot use
+ * the HTTP API but may still be named in an MQTT command.
  */
 public final class OperatorRoster {
+
+    /** Why every command is refused on a site without an operators section, and what to do about it. */
+    public static final String NO_OPERATORS = "the site file has no operators section, so every command is refused;"
+            + " list who may command there (e.g. operators: {duty-1: {role: operator}}) and make each one's HTTP"
+            + " token with `cryowarden token new --operator ID --role R`";
 
     /** One operator: the id commands name, the role, the hash of the API token when there is one. */
     public record Operator(String id, Role role, Optional<TokenHash> token) {
@@ -42,8 +47,8 @@ public final class OperatorRoster {
         return new OperatorRoster(Optional.of(byId));
     }
 
-    /** The roster of a site without an operators section: no role check (see the class comment). */
-    public static OperatorRoster legacy() {
+    /** The roster of a site without an operators section: every command is refused (see the class comment). */
+    public static OperatorRoster none() {
         return new OperatorRoster(Optional.empty());
     }
 
@@ -55,7 +60,7 @@ public final class OperatorRoster {
     public static OperatorRoster read(SiteDef site) throws ConfigException {
         ConfigNode.Mapping section = site.sections().get("operators");
         if (section == null) {
-            return legacy();
+            return none();
         }
         List<ConfigProblem> problems = new ArrayList<>();
         Map<String, Operator> byId = new LinkedHashMap<>();
@@ -110,10 +115,10 @@ public final class OperatorRoster {
                 .filter(s -> !s.isNull());
     }
 
-    /** Why {@code operator} may not give {@code verb}, or empty when the roster allows it (or is {@link #legacy}). */
+    /** Why {@code operator} may not give {@code verb}, or empty when the roster allows it. */
     public Optional<String> refusal(String verb, String operator) {
         if (operators.isEmpty()) {
-            return Optional.empty();
+            return Optional.of(NO_OPERATORS);
         }
         Operator known = operators.get().get(operator);
         if (known == null) {
@@ -144,7 +149,7 @@ public final class OperatorRoster {
         return found;
     }
 
-    /** Whether the site lists operators at all; false for {@link #legacy()}. */
+    /** Whether the site lists operators at all; false for {@link #none()}. */
     public boolean configured() {
         return operators.isPresent();
     }

@@ -13,9 +13,6 @@ import java.net.InetSocketAddress;
 import java.net.URI;
 import java.net.URLDecoder;
 import java.nio.charset.StandardCharsets;
-import java.nio.file.Files;
-import java.nio.file.Path;
-import java.security.MessageDigest;
 import java.time.Duration;
 import java.time.Instant;
 import java.time.format.DateTimeParseException;
@@ -44,12 +41,12 @@ import org.slf4j.LoggerFactory;
  * <pre>
  * GET  /api/status  /api/channels  /api/alarms  /api/interlocks
  * GET  /api/events?after=SEQ | /api/events?since=2h | since=2025-01-01T00:00:00Z   (at most limit=1000)
- * POST /api/commands/{ack|shelve|unshelve|reset|bypass}   body as on MQTT   (token)
- * POST /api/reload                                                          (token)
+ * POST /api/commands/{ack|shelve|unshelve|reset|bypass}   body as on MQTT   (operator's token)
+ * POST /api/reload                                                          (supervisor's token)
  * GET  /metrics     Prometheus text format
  * </pre>
- * Writes need {@code Authorization: Bearer TOKEN} with the token from the file the site names; with no token
- * file there are no writes at all.
+ * Writes need {@code Authorization: Bearer TOKEN} with the token of the operator the command names (site file,
+ * {@code operators}); a site without operators refuses every write, and journals each refusal.
  */
 public final class ApiServer implements AutoCloseable {
 
@@ -59,13 +56,11 @@ public final class ApiServer implements AutoCloseable {
     private final HttpServer server;
     private final ExecutorService executor;
     private final Daemon daemon;
-    private final Optional<byte[]> token;
 
-    private ApiServer(HttpServer server, ExecutorService executor, Daemon daemon, Optional<byte[]> token) {
+    private ApiServer(HttpServer server, ExecutorService executor, Daemon daemon) {
         this.server = server;
         this.executor = executor;
         this.daemon = daemon;
-        this.token = token;
     }
 
     /** Starts the API when the site enables it (the default); a taken port is an error that names it. */
@@ -73,23 +68,10 @@ public final class ApiServer implements AutoCloseable {
         if (daemon.settings().apiPort().isEmpty()) {
             return Optional.empty();
         }
-        return Optional.of(start(daemon, daemon.settings().apiPort().get(), daemon.settings().tokenFile()));
+        return Optional.of(start(daemon, daemon.settings().apiPort().get()));
     }
 
-    public static ApiServer start(Daemon daemon, int port, Optional<Path> tokenFile) throws IOException {
-        Optional<byte[]> token = Optional.empty();
-        if (tokenFile.isPresent()) {
-            try {
-                String text = Files.readString(tokenFile.get()).strip();
-                if (text.length() < 16) {
-                    throw new IOException("the API token in " + tokenFile.get() + " is shorter than 16 characters;"
-                            + " write a longer random one, e.g. `openssl rand -hex 32 > " + tokenFile.get() + "`");
-                }
-                token = Optional.of(text.getBytes(StandardCharsets.UTF_8));
-            } catch (IOException e) {
-                throw new IOException("cannot read the API token file " + tokenFile.get() + ": " + e.getMessage(), e);
-            }
-        }
+    public static ApiServer start(Daemon daemon, int port) throws IOException {
         HttpServer server;
         try {
             server = HttpServer.create(new InetSocketAddress(InetAddress.getLoopbackAddress(), port), 16);
@@ -103,11 +85,12 @@ public final class ApiServer implements AutoCloseable {
             return thread;
         });
         server.setExecutor(executor);
-        ApiServer api = new ApiServer(server, executor, daemon, token);
+        ApiServer api = new ApiServer(server, executor, daemon);
         server.createContext("/", api::handle);
         server.start();
         LOG.info("HTTP API on http://127.0.0.1:{}/api/ ({}); metrics on /metrics", api.port(),
-                token.isPresent() ? "writes need the token" : "read-only: no token file in the site file");
+                daemon.settings().operators().configured() ? "writes need an operator's token"
+                        : "every write refused: the site file lists no operators");
         return api;
     }
 
@@ -177,14 +160,17 @@ public final class ApiServer implements AutoCloseable {
             send(exchange, 405, error("method " + method + " is not allowed"));
             return;
         }
+        if (!daemon.settings().operators().configured() && refusedForNoOperators(exchange, path)) {
+            return;
+        }
         Optional<Sender> sender = authorised(exchange);
         if (sender.isEmpty()) {
             return;
         }
         if (path.equals("/api/reload")) {
-            Optional<OperatorRoster.Operator> operator = sender.get().operator();
-            if (operator.isPresent() && operator.get().role() != Role.SUPERVISOR) {
-                send(exchange, 403, error("reload needs a supervisor; " + operator.get().id() + " is not one"));
+            OperatorRoster.Operator operator = sender.get().operator();
+            if (operator.role() != Role.SUPERVISOR) {
+                send(exchange, 403, error("reload needs a supervisor; " + operator.id() + " is not one"));
                 return;
             }
             List<String> problems = daemon.reload();
@@ -205,10 +191,10 @@ public final class ApiServer implements AutoCloseable {
                 return;
             }
             OperatorCommand command = parsed.command().orElseThrow();
-            Optional<OperatorRoster.Operator> operator = sender.get().operator();
-            if (operator.isPresent() && !operator.get().id().equals(command.operator())) {
+            OperatorRoster.Operator operator = sender.get().operator();
+            if (!operator.id().equals(command.operator())) {
                 String reason = "the command names operator '" + command.operator() + "' but the token is "
-                        + operator.get().id() + "'s";
+                        + operator.id() + "'s";
                 LOG.warn("command {} over HTTP refused: {}", verb, reason);
                 daemon.commandRefused("http", verb, Optional.of(command), reason);
                 send(exchange, 403, Payloads.reply(Optional.of(reason)));
@@ -225,37 +211,44 @@ public final class ApiServer implements AutoCloseable {
     }
 
     /**
-     * Who sent the request, or empty after answering 401/403. With an operators section the bearer token must be
-     * one of theirs (compared by hash); without one it must be the single token of {@code api.token_file}, and the
-     * sender is not known by name.
+     * On a site without operators, answers a command or reload with 403 and journals the refusal (as MQTT does),
+     * whatever token came with it; returns false for other paths, which get their 404.
+     */
+    private boolean refusedForNoOperators(HttpExchange exchange, String path) throws IOException {
+        Optional<OperatorCommand> command = Optional.empty();
+        String verb;
+        if (path.equals("/api/reload")) {
+            verb = "reload";
+        } else if (path.startsWith("/api/commands/")) {
+            verb = path.substring("/api/commands/".length());
+            command = OperatorCommand.parse(verb, readBody(exchange.getRequestBody())).command();
+        } else {
+            return false;
+        }
+        LOG.warn("command {} over HTTP refused: {}", verb, OperatorRoster.NO_OPERATORS);
+        daemon.commandRefused("http", verb, command, OperatorRoster.NO_OPERATORS);
+        send(exchange, 403, Payloads.reply(Optional.of(OperatorRoster.NO_OPERATORS)));
+        return true;
+    }
+
+    /**
+     * Who sent the request, or empty after answering 401: the operator whose token it is (compared by hash).
      */
     private Optional<Sender> authorised(HttpExchange exchange) throws IOException {
         String header = Optional.ofNullable(exchange.getRequestHeaders().getFirst("Authorization")).orElse("");
         String presented = header.startsWith("Bearer ") ? header.substring(7).strip() : "";
-        OperatorRoster roster = daemon.settings().operators();
-        if (roster.configured()) {
-            Optional<OperatorRoster.Operator> operator = presented.isEmpty() ? Optional.empty()
-                    : roster.identify(presented);
-            if (operator.isEmpty()) {
-                send(exchange, 401, error("missing or unknown token: send Authorization: Bearer TOKEN, the token"
-                        + " made for you by `cryowarden token new`"));
-                return Optional.empty();
-            }
-            return Optional.of(new Sender(operator));
-        }
-        if (token.isEmpty()) {
-            send(exchange, 403, error("writes are off: the site file names no api token_file and no operators"));
+        Optional<OperatorRoster.Operator> operator = presented.isEmpty() ? Optional.empty()
+                : daemon.settings().operators().identify(presented);
+        if (operator.isEmpty()) {
+            send(exchange, 401, error("missing or unknown token: send Authorization: Bearer TOKEN, the token"
+                    + " made for you by `cryowarden token new`"));
             return Optional.empty();
         }
-        if (!MessageDigest.isEqual(presented.getBytes(StandardCharsets.UTF_8), token.get())) {
-            send(exchange, 401, error("missing or wrong token: send Authorization: Bearer TOKEN"));
-            return Optional.empty();
-        }
-        return Optional.of(new Sender(Optional.empty()));
+        return Optional.of(new Sender(operator.get()));
     }
 
-    /** The sender of an authorised write: the operator when the site lists operators. */
-    private record Sender(Optional<OperatorRoster.Operator> operator) {
+    /** The sender of an authorised write: always a named operator. */
+    private record Sender(OperatorRoster.Operator operator) {
     }
 
     private ArrayNode channels() {

@@ -93,9 +93,10 @@ final class CheckCommand implements Callable<Integer> {
             err.flush();
             return INVALID;
         }
+        DaemonSettings settings;
         try {
             // The daemon's own sections (mqtt, journal, api): TLS files, password files and the like.
-            DaemonSettings.read(configuration.site(), RunCommand.folder(site));
+            settings = DaemonSettings.read(configuration.site(), RunCommand.folder(site));
         } catch (ConfigException e) {
             for (ConfigProblem problem : e.problems()) {
                 err.println(problem);
@@ -122,6 +123,10 @@ final class CheckCommand implements Callable<Integer> {
         } catch (ConfigException e) {
             return RunCommand.refuse(err, e);
         }
+        for (String warning : settings.warnings()) {
+            err.println("warning: " + warning);
+        }
+        err.flush();
         out.println(summary(configuration) + night.notifiers().map(n -> "; notifiers: " + n.senderIds().size()
                 + " senders, " + n.roster().contacts().size() + " contacts on the roster").orElse(""));
         out.flush();

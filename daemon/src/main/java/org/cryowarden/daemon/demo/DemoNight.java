@@ -50,15 +50,18 @@ import org.cryowarden.simulator.scenario.ScenarioReader;
  * An accelerated night: the simulator's scenario on TCP ports, the daemon on the example site pointed at them,
  * one virtual clock for both. Each simulated step moves the physics and the clock, lets every bus poll what is
  * due, lets the engine evaluate, and waits for the journal; real time is only used to pace the night at
- * {@code speed} simulated seconds per real second. A scripted night operator acknowledges each alarm a few
- * simulated minutes after it is raised and resets tripped interlocks once their cause is clear.
+ * {@code speed} simulated seconds per real second. A scripted night operator ({@value #OPERATOR}, role operator in
+ * the example site's {@code operators}) acknowledges each alarm a few simulated minutes after it is raised, and the
+ * lab lead ({@value #SUPERVISOR}, a supervisor) resets tripped interlocks once their cause is clear.
  */
 public final class DemoNight {
 
     /** The example site's channel and room the summary reports on. */
     static final String LOWEST_OXYGEN = "o2-magnet-hall-lowest";
     static final String ROOM = "magnet-hall";
-    static final String OPERATOR = "night operator (demo)";
+    /** Who acknowledges and who resets: operators of the example site, checked like any other. */
+    static final String OPERATOR = "duty-1";
+    static final String SUPERVISOR = "lab-lead";
     static final Duration ACK_AFTER = Duration.ofMinutes(3);
 
     private static final DateTimeFormatter CLOCK = DateTimeFormatter.ofPattern("HH:mm:ss").withZone(ZoneOffset.UTC);
@@ -149,6 +152,10 @@ public final class DemoNight {
                 + "; topics under " + daemon.prefix() + "/");
         out.println("Watch it:    mosquitto_sub -h 127.0.0.1 -p " + port + " -t 'cryowarden/#' -v");
         out.println("Journal:     " + daemon.journalFile());
+        // The scripted operators' commands are checked like anyone's: say so at once if the site would refuse them.
+        daemon.settings().operators().refusal("ack", OPERATOR).or(() -> daemon.settings().operators()
+                .refusal("reset", SUPERVISOR)).ifPresent(refusal -> out.println("Operators:   the scripted"
+                        + " acknowledgements and resets will be refused: " + refusal));
         out.flush();
         Duration length = settings.duration().orElse(scenario.duration());
         long steps = Math.max(1, length.toNanos() / scenario.step().toNanos());
@@ -186,7 +193,7 @@ public final class DemoNight {
             if (!tripped.isEmpty() && !now.isBefore(nextResetTry)) {
                 nextResetTry = now.plus(Duration.ofMinutes(5));
                 for (String id : tripped) {
-                    daemon.command(new OperatorCommand("reset", id, OPERATOR, "", Optional.empty(), ""));
+                    daemon.command(new OperatorCommand("reset", id, SUPERVISOR, "", Optional.empty(), ""));
                 }
             }
             Reading o2 = daemon.latestReadings().get(LOWEST_OXYGEN);

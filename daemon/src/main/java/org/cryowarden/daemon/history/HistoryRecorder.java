@@ -32,6 +32,8 @@ public final class HistoryRecorder implements AutoCloseable {
 
     private static final Logger LOG = LoggerFactory.getLogger(HistoryRecorder.class);
     private static final Duration PRUNE_EVERY = Duration.ofHours(1);
+    /** While writes fail, one error line in this many attempts (the first is always logged). */
+    private static final long LOG_EVERY = 1000;
 
     private record Pending(long key, HistoryBlock block, boolean sealed) {
     }
@@ -56,6 +58,8 @@ public final class HistoryRecorder implements AutoCloseable {
     private final Map<Long, Long> rowIds = new HashMap<>();
     private final AtomicLong failures = new AtomicLong();
     private final AtomicLong written = new AtomicLong();
+    /** Failed attempts since the last write that worked. */
+    private final AtomicLong failingFor = new AtomicLong();
     private long nextKey = 1;
     private Instant lastFlush;
     private Instant lastPrune;
@@ -171,15 +175,19 @@ public final class HistoryRecorder implements AutoCloseable {
         writePending();
     }
 
-    /** Writes what was handed over, on the caller's thread (driven mode, tests). */
-    public void writePending() {
+    /**
+     * Writes what was handed over, on the caller's thread (driven mode, tests).
+     *
+     * @return false when the write failed (what it held is kept for the next attempt)
+     */
+    public boolean writePending() {
         Map<Long, Pending> batch;
         synchronized (handOver) {
             batch = pending;
             pending = new LinkedHashMap<>();
         }
         if (batch.isEmpty()) {
-            return;
+            return true;
         }
         List<Pending> items = new ArrayList<>(batch.values());
         List<BlockRow> rows = new ArrayList<>(items.size());
@@ -199,16 +207,24 @@ public final class HistoryRecorder implements AutoCloseable {
                 }
             }
             written.addAndGet(items.size());
+            long failed = failingFor.getAndSet(0);
+            if (failed > 0) {
+                LOG.warn("raw history: writes again after {} failed attempts", failed);
+            }
         } catch (JournalException e) {
             failures.incrementAndGet();
-            LOG.error("{}", e.getMessage());
+            long failed = failingFor.getAndIncrement();
+            if (failed % LOG_EVERY == 0) {
+                LOG.error("{} ({} failed attempts so far; retried at each flush, logged once in {})",
+                        e.getMessage(), failed + 1, LOG_EVERY);
+            }
             synchronized (handOver) {
                 // keep them for the next attempt unless newer snapshots of the same blocks came meanwhile
                 for (Pending item : items) {
                     pending.putIfAbsent(item.key, item);
                 }
             }
-            return;
+            return false;
         }
         if (lastPrune == null || Duration.between(lastPrune, newest).compareTo(PRUNE_EVERY) >= 0) {
             lastPrune = newest;
@@ -222,6 +238,7 @@ public final class HistoryRecorder implements AutoCloseable {
                 LOG.error("{}", e.getMessage());
             }
         }
+        return true;
     }
 
     private void flushOpen() {
@@ -255,9 +272,11 @@ public final class HistoryRecorder implements AutoCloseable {
     }
 
     private void loop() {
+        boolean wrote = true;
         while (running) {
             synchronized (handOver) {
-                if (pending.isEmpty() && running) {
+                // After a failure the kept blocks are pending: wait all the same, or the retry spins.
+                if ((pending.isEmpty() || !wrote) && running) {
                     try {
                         handOver.wait(1_000);
                     } catch (InterruptedException e) {
@@ -265,7 +284,7 @@ public final class HistoryRecorder implements AutoCloseable {
                     }
                 }
             }
-            writePending();
+            wrote = writePending();
         }
     }
 }

@@ -28,11 +28,13 @@ public final class HistoryTable {
     }
 
     private final Path file;
+    private final JournalFiles files;
     private final Connection connection;
     private final Object lock = new Object();
 
     HistoryTable(Path file, Connection connection) {
         this.file = file;
+        this.files = new JournalFiles(file);
         this.connection = connection;
     }
 
@@ -43,7 +45,7 @@ public final class HistoryTable {
     public List<Long> write(List<BlockRow> rows, Instant now) throws JournalException {
         synchronized (lock) {
             try {
-                return Journal.inTransaction(connection, () -> {
+                return Journal.inTransaction(files, connection, () -> {
                     List<Long> ids = new ArrayList<>(rows.size());
                     try (PreparedStatement insert = connection.prepareStatement("""
                             INSERT INTO history_block (channel, first_ns, last_ns, count, sealed, data, written_ms)
@@ -80,7 +82,7 @@ public final class HistoryTable {
                 });
             } catch (SQLException e) {
                 throw new JournalException("journal " + file + ": could not record " + rows.size()
-                        + " history blocks: " + SqliteProblems.explain(e) + "; those readings are not in the history",
+                        + " history blocks: " + SqliteProblems.explain(e, file) + "; those readings are not in the history",
                         e);
             }
         }
@@ -90,7 +92,7 @@ public final class HistoryTable {
     public int pruneBefore(Instant cutoff) throws JournalException {
         synchronized (lock) {
             try {
-                return Journal.inTransaction(connection, () -> {
+                return Journal.inTransaction(files, connection, () -> {
                     try (PreparedStatement delete = connection.prepareStatement(
                             "DELETE FROM history_block WHERE last_ns < ?")) {
                         delete.setLong(1, nanos(cutoff));
@@ -99,7 +101,7 @@ public final class HistoryTable {
                 });
             } catch (SQLException e) {
                 throw new JournalException("journal " + file + ": could not prune history blocks before " + cutoff
-                        + ": " + SqliteProblems.explain(e), e);
+                        + ": " + SqliteProblems.explain(e, file), e);
             }
         }
     }
@@ -122,14 +124,14 @@ public final class HistoryTable {
     public int sealAll() throws JournalException {
         synchronized (lock) {
             try {
-                return Journal.inTransaction(connection, () -> {
+                return Journal.inTransaction(files, connection, () -> {
                     try (Statement statement = connection.createStatement()) {
                         return statement.executeUpdate("UPDATE history_block SET sealed = 1 WHERE sealed = 0");
                     }
                 });
             } catch (SQLException e) {
                 throw new JournalException("journal " + file + ": could not seal history blocks: "
-                        + SqliteProblems.explain(e), e);
+                        + SqliteProblems.explain(e, file), e);
             }
         }
     }
@@ -201,7 +203,7 @@ public final class HistoryTable {
                 return work.run();
             } catch (SQLException e) {
                 throw new JournalException("journal " + file + ": could not read " + what + ": "
-                        + SqliteProblems.explain(e), e);
+                        + SqliteProblems.explain(e, file), e);
             }
         }
     }

@@ -45,6 +45,7 @@ public final class Journal implements AutoCloseable {
     private static final Duration PRUNE_EVERY = Duration.ofHours(1);
 
     private final Path file;
+    private final JournalFiles files;
     private final JournalSettings settings;
     private final Connection records;
     private final Connection aggregatesConnection;
@@ -63,6 +64,7 @@ public final class Journal implements AutoCloseable {
     private Journal(Path file, JournalSettings settings, Connection records, Connection aggregates,
             Connection history) {
         this.file = file;
+        this.files = new JournalFiles(file);
         this.settings = settings;
         this.records = records;
         this.aggregatesConnection = aggregates;
@@ -91,7 +93,7 @@ public final class Journal implements AutoCloseable {
                         + NOTHING_RECORDED);
             }
             checkWal(records, path);
-            migrate(records, version);
+            migrate(new JournalFiles(path), records, version);
             aggregates = connect(path, settings, SQLiteConfig.SynchronousMode.NORMAL);
             history = connect(path, settings, SQLiteConfig.SynchronousMode.NORMAL);
             return new Journal(path, settings, records, aggregates, history);
@@ -99,7 +101,7 @@ public final class Journal implements AutoCloseable {
             closeQuietly(records);
             closeQuietly(aggregates);
             closeQuietly(history);
-            throw new JournalException("cannot open the journal " + path + ": " + SqliteProblems.explain(e)
+            throw new JournalException("cannot open the journal " + path + ": " + SqliteProblems.explain(e, path)
                     + NOTHING_RECORDED, e);
         } catch (JournalException e) {
             closeQuietly(records);
@@ -139,7 +141,7 @@ public final class Journal implements AutoCloseable {
             ensureOpen(what);
             long start = System.nanoTime();
             try {
-                T result = inTransaction(records, () -> work.apply(new JournalTransaction(records)));
+                T result = inTransaction(files, records, () -> work.apply(new JournalTransaction(records)));
                 lastCommitNanos = System.nanoTime() - start;
                 return result;
             } catch (SQLException e) {
@@ -298,7 +300,7 @@ public final class Journal implements AutoCloseable {
         long cutoff = now.minus(settings.aggregateRetention()).toEpochMilli();
         synchronized (aggregateLock) {
             try {
-                int deleted = inTransaction(aggregatesConnection, () -> {
+                int deleted = inTransaction(files, aggregatesConnection, () -> {
                     try (PreparedStatement delete = aggregatesConnection.prepareStatement(
                             "DELETE FROM minute_aggregate WHERE minute_ms < ?")) {
                         delete.setLong(1, cutoff);
@@ -337,7 +339,7 @@ public final class Journal implements AutoCloseable {
                 return result;
             } catch (SQLException e) {
                 throw new JournalException("journal " + file + ": could not read the minute aggregates of " + channel
-                        + ": " + SqliteProblems.explain(e), e);
+                        + ": " + SqliteProblems.explain(e, file), e);
             }
         }
     }
@@ -355,7 +357,7 @@ public final class Journal implements AutoCloseable {
                 return channels;
             } catch (SQLException e) {
                 throw new JournalException("journal " + file + ": could not read the channels of the minute aggregates: "
-                        + SqliteProblems.explain(e), e);
+                        + SqliteProblems.explain(e, file), e);
             }
         }
     }
@@ -375,6 +377,18 @@ public final class Journal implements AutoCloseable {
                     flushFailure = e;
                 }
                 closed = true;
+                Optional<String> stuck = files.stuck();
+                if (stuck.isPresent()) {
+                    // Closing the last connection checkpoints, which writes the memory-mapped -shm: on a file
+                    // that cannot be written the kernel answers that with SIGBUS, and the process dies.
+                    LOG.warn("journal {}: its files cannot be written ({}); its connections are left open rather"
+                            + " than checkpointed, and SQLite recovers the write-ahead log at the next open", file,
+                            stuck.get());
+                    if (flushFailure != null) {
+                        throw flushFailure;
+                    }
+                    return;
+                }
                 try {
                     history.close();
                 } catch (SQLException e) {
@@ -432,7 +446,7 @@ public final class Journal implements AutoCloseable {
             return;
         }
         try {
-            inTransaction(aggregatesConnection, () -> {
+            inTransaction(files, aggregatesConnection, () -> {
                 try (PreparedStatement upsert = aggregatesConnection.prepareStatement("""
                         INSERT INTO minute_aggregate
                             (channel, minute_ms, good_count, total_count, min_value, max_value, sum_value)
@@ -463,7 +477,12 @@ public final class Journal implements AutoCloseable {
         }
     }
 
-    static <T> T inTransaction(Connection connection, SqlWork<T> work) throws SQLException {
+    /**
+     * Runs {@code work} between {@code BEGIN IMMEDIATE} and {@code COMMIT}, rolled back on failure; refused before
+     * SQLite is asked when the journal's files cannot be written (see {@link JournalFiles}).
+     */
+    static <T> T inTransaction(JournalFiles files, Connection connection, SqlWork<T> work) throws SQLException {
+        files.checkWritable();
         try (Statement statement = connection.createStatement()) {
             statement.execute("BEGIN IMMEDIATE");
         }
@@ -486,7 +505,7 @@ public final class Journal implements AutoCloseable {
                 return work.run();
             } catch (SQLException e) {
                 throw new JournalException("journal " + file + ": could not read " + what + ": "
-                        + SqliteProblems.explain(e), e);
+                        + SqliteProblems.explain(e, file), e);
             }
         }
     }
@@ -524,7 +543,7 @@ public final class Journal implements AutoCloseable {
 
     private JournalException notRecorded(String what, SQLException e) {
         return new JournalException("journal " + file + ": could not record " + what + ": "
-                + SqliteProblems.explain(e) + "; it is not in the journal", e);
+                + SqliteProblems.explain(e, file) + "; it is not in the journal", e);
     }
 
     private static void checkPath(Path path) throws JournalException {
@@ -563,12 +582,12 @@ public final class Journal implements AutoCloseable {
         }
     }
 
-    private static void migrate(Connection connection, int from) throws SQLException {
+    private static void migrate(JournalFiles files, Connection connection, int from) throws SQLException {
         for (Migration migration : Schema.MIGRATIONS) {
             if (migration.version() <= from) {
                 continue;
             }
-            inTransaction(connection, () -> {
+            inTransaction(files, connection, () -> {
                 try (Statement statement = connection.createStatement()) {
                     for (String sql : migration.statements()) {
                         statement.execute(sql);

@@ -1,6 +1,9 @@
 package org.cryowarden.daemon.journal;
 
+import java.nio.file.Path;
 import java.sql.SQLException;
+import java.util.EnumSet;
+import java.util.Optional;
 import org.sqlite.SQLiteErrorCode;
 import org.sqlite.SQLiteException;
 
@@ -8,6 +11,27 @@ import org.sqlite.SQLiteException;
 final class SqliteProblems {
 
     private SqliteProblems() {
+    }
+
+    /** Codes SQLite gives when the system refused a write (EPERM, EROFS surface as a bare I/O error). */
+    private static final EnumSet<SQLiteErrorCode> REFUSED_WRITE = EnumSet.of(SQLiteErrorCode.SQLITE_IOERR,
+            SQLiteErrorCode.SQLITE_READONLY, SQLiteErrorCode.SQLITE_PERM, SQLiteErrorCode.SQLITE_CANTOPEN);
+
+    /**
+     * As {@link #explain(SQLException)}, but a refused write is checked against the journal's files: when one of
+     * them became immutable or its file system read-only, that is what the operator is told, not an I/O error.
+     */
+    static String explain(SQLException e, Path file) {
+        SQLiteErrorCode code = primary(code(e));
+        if (REFUSED_WRITE.contains(code)) {
+            Optional<String> stuck = new JournalFiles(file).stuck();
+            if (stuck.isPresent()) {
+                return "the journal's files are read-only (" + code.name() + "; " + stuck.get()
+                        + "; an immutable file or a file system mounted read-only); make the file, its -wal and"
+                        + " -shm and its folder writable for the user that runs cryowarden";
+            }
+        }
+        return explain(e);
     }
 
     /** What went wrong and what to do, e.g. "the disk is full (SQLITE_FULL); free space ...". */

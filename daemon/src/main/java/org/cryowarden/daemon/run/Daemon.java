@@ -302,9 +302,8 @@ public final class Daemon implements AutoCloseable {
         LOG.info("cryowarden running: site '{}', {} buses, {} channels, {} rules; MQTT {} under {}/; journal {}",
                 configuration.site().name(), pollers.size(), configuration.channelCount(),
                 configuration.rules().rules().size(), brokerUri, settings.prefix(), journal.file());
-        if (!settings.operators().configured()) {
-            LOG.warn("no operators section in the site file: commands are not checked against roles (HTTP writes"
-                    + " need the api token_file, MQTT commands only the broker's ACL); list the operators to check them");
+        for (String warning : settings.warnings()) {
+            LOG.warn("{}", warning);
         }
     }
 

@@ -29,7 +29,7 @@ import org.cryowarden.rules.model.SiteDef;
  *           client_id: ..., username: ..., password_file: FILE | password_env: VARIABLE,
  *           ca_file: PEM, client_cert: PEM, client_key: PEM, max_interval: 5min, deadbands: {CHANNEL: "0.05 %vol"}}
  * journal: {path: FILE, retention: 90d, history_flush: 10s, history_retention: 14d}
- * api:     {port: 8741, token_file: FILE}
+ * api:     {port: 8741}   (token_file is accepted but unused: see warnings())
  * </pre>
  * Relative paths are resolved against the site file's folder.
  *
@@ -64,6 +64,20 @@ public record DaemonSettings(
 
     public DaemonSettings {
         deadbands = Map.copyOf(deadbands);
+    }
+
+    /**
+     * What the site file leaves unsafe or unused, for the startup log and {@code check}: no operators section (every
+     * command refused), an {@code api.token_file} (no longer read: HTTP commands need an operator's token).
+     */
+    public List<String> warnings() {
+        List<String> warnings = new ArrayList<>();
+        if (!operators.configured()) {
+            warnings.add(OperatorRoster.NO_OPERATORS);
+        }
+        tokenFile.ifPresent(file -> warnings.add("api.token_file (" + file + ") is not used: an HTTP command needs"
+                + " the token of the operator it names (operators section); remove the key"));
+        return warnings;
     }
 
     /** A lower-case topic segment from a site name: "Harbour Hall lab" gives "harbour-hall-lab". */
@@ -164,7 +178,7 @@ public record DaemonSettings(
         Optional<Integer> apiPort = api.bool("enabled").orElse(true)
                 ? Optional.of(api.integer("port", 0, 65535).orElse(DEFAULT_API_PORT)) : Optional.empty();
         Optional<Path> tokenFile = api.text("token_file").map(p -> siteFolder.resolve(p));
-        OperatorRoster operators = OperatorRoster.legacy();
+        OperatorRoster operators = OperatorRoster.none();
         try {
             operators = OperatorRoster.read(site);
         } catch (ConfigException e) {

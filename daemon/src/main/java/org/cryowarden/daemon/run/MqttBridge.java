@@ -87,6 +87,13 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
     private final AtomicLong commandsRefused = new AtomicLong();
     private final AtomicLong aggregateFailures = new AtomicLong();
     private volatile long outboxDepth;
+    /**
+     * Outbox entries the broker acknowledged whose delivery the journal could not record (read-only, full): not
+     * sent again while it cannot, marked as soon as it can. Event thread only.
+     */
+    private final List<Long> deliveredUnmarked = new ArrayList<>();
+    /** Outbox rounds failed in a row on the journal. Event thread only. */
+    private long outboxFailures;
     private volatile CompletableFuture<Void> commandsGranted = new CompletableFuture<>();
     private volatile boolean running;
     private final List<Thread> threads = new ArrayList<>();
@@ -360,8 +367,12 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
                 if (link.isConnected()) {
                     sendOutbox();
                 }
+                outboxFailures = 0;
             } catch (JournalException e) {
-                LOG.error("{}", e.getMessage());
+                // Every batch wakes this loop: while the journal cannot write, say so once in a while, not each time.
+                if (outboxFailures++ % 1000 == 0) {
+                    LOG.error("{} ({} failed attempts so far, logged once in 1000)", e.getMessage(), outboxFailures);
+                }
             }
         }
     }
@@ -374,6 +385,11 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
      */
     private void sendOutbox() throws JournalException {
         while (running && link.isConnected()) {
+            if (!deliveredUnmarked.isEmpty()) {
+                // Until the journal takes these, sending the window again would only repeat them.
+                journal.markDelivered(deliveredUnmarked, time.wallNow());
+                deliveredUnmarked.clear();
+            }
             List<OutboxEntry> entries = journal.undelivered(OUTBOX_SINK, OUTBOX_WINDOW);
             if (entries.isEmpty()) {
                 outboxDepth = 0;
@@ -391,7 +407,7 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
                     result = sent.get(i).get(PUBLISH_TIMEOUT.toMillis(), TimeUnit.MILLISECONDS);
                 } catch (InterruptedException e) {
                     Thread.currentThread().interrupt();
-                    journal.markDelivered(delivered, time.wallNow());
+                    markDelivered(delivered);
                     return;
                 } catch (ExecutionException | TimeoutException e) {
                     result = new PublishResult.Failed(e.toString());
@@ -402,14 +418,24 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
                     failed = entries.get(i);
                 }
             }
-            journal.markDelivered(delivered, time.wallNow());
             eventsPublished.addAndGet(delivered.size());
+            markDelivered(delivered);
             if (failed != null) {
                 journal.recordAttempt(failed.id(), time.wallNow());
                 outboxDepth = journal.outboxDepth(OUTBOX_SINK);
                 return;
             }
             outboxDepth = journal.outboxDepth(OUTBOX_SINK);
+        }
+    }
+
+    /** Marks the entries delivered, or keeps them to mark later when the journal cannot write. */
+    private void markDelivered(List<Long> delivered) throws JournalException {
+        try {
+            journal.markDelivered(delivered, time.wallNow());
+        } catch (JournalException e) {
+            deliveredUnmarked.addAll(delivered);
+            throw e;
         }
     }
 

@@ -53,10 +53,16 @@ class OperatorRosterTest {
     }
 
     @Test
-    void siteWithoutOperatorsKeepsTheOlderRulesAndKnowsNoToken() {
-        assertThat(OperatorRoster.legacy().configured()).isFalse();
-        assertThat(OperatorRoster.legacy().refusal("reset", "ada")).isEmpty();
-        assertThat(OperatorRoster.legacy().identify(adaToken)).isEmpty();
+    void siteWithoutOperatorsRefusesEveryCommandSayingHowToListThemAndKnowsNoToken() {
+        // Fail closed (common practice): no roster, no command, whatever the verb or the name.
+        for (String verb : List.of("ack", "shelve", "unshelve", "reset", "bypass")) {
+            assertThat(OperatorRoster.none().refusal(verb, "ada")).hasValueSatisfying(reason -> assertThat(reason)
+                    .startsWith("the site file has no operators section, so every command is refused;")
+                    .contains("operators: {duty-1: {role: operator}}")
+                    .contains("`cryowarden token new --operator ID --role R`"));
+        }
+        assertThat(OperatorRoster.none().configured()).isFalse();
+        assertThat(OperatorRoster.none().identify(adaToken)).isEmpty();
     }
 
     @Test

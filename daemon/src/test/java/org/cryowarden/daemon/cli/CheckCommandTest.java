@@ -36,6 +36,21 @@ class CheckCommandTest {
     }
 
     @Test
+    void siteWithoutOperatorsIsValidButWarnsThatEveryCommandWillBeRefused() throws IOException {
+        Path site = folder.resolve("harbour-hall-site.yaml");
+        String text = Files.readString(Path.of(SITE));
+        Files.writeString(site, text.replaceFirst("(?m)^operators:\\n(?:  .*\\n?)+", ""));
+
+        int exit = run("check", "--site", site.toString(), "--rules", RULES);
+
+        assertThat(exit).isEqualTo(0);
+        assertThat(out.toString()).startsWith("valid: site 'Harbour Hall low-temperature lab'");
+        assertThat(err.toString().lines()).containsExactly("warning: the site file has no operators section, so"
+                + " every command is refused; list who may command there (e.g. operators: {duty-1: {role:"
+                + " operator}}) and make each one's HTTP token with `cryowarden token new --operator ID --role R`");
+    }
+
+    @Test
     void invalidFilesExitTwoWithEveryErrorOnStderr() throws IOException {
         Path rules = folder.resolve("night-rules.yaml");
         Files.writeString(rules, "rules:\n"

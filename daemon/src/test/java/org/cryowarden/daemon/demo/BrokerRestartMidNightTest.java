@@ -96,7 +96,7 @@ class BrokerRestartMidNightTest {
 
     private static void command(Night night, String verb, String target, Optional<Duration> duration)
             throws Exception {
-        var done = night.daemon.command(new OperatorCommand(verb, target, "Ada", "", duration,
+        var done = night.daemon.command(new OperatorCommand(verb, target, DemoNight.OPERATOR, "", duration,
                 duration.isPresent() ? "sensor swap" : ""));
         night.step();
         assertThat(done.get(5, TimeUnit.SECONDS)).as(verb + " " + target).isEmpty();

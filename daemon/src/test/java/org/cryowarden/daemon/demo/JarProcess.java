@@ -73,8 +73,11 @@ final class JarProcess implements AutoCloseable {
         }
         bus.appendTail(out);
         String site = out.toString();
+        // The example's operators come along: without them every command is refused.
+        Matcher operators = Pattern.compile("(?m)^operators:\\n(?:  .*\\n?)+").matcher(site);
+        String roster = operators.find() ? operators.group() : "";
         site = site.substring(0, site.indexOf("\nmqtt:\n")) + "\nmqtt: {broker: \"" + broker + "\", prefix: " + prefix
-                + ", client_id: " + clientId + "}\napi: {enabled: false}\n";
+                + ", client_id: " + clientId + "}\napi: {enabled: false}\n" + roster;
         Path file = folder.resolve(DemoFiles.SITE);
         Files.writeString(file, site);
         Files.copy(Path.of("..", "config-examples", DemoFiles.RULES), folder.resolve(DemoFiles.RULES));

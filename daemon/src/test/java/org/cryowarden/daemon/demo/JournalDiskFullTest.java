@@ -3,6 +3,12 @@ package org.cryowarden.daemon.demo;
 import static org.cryowarden.daemon.demo.Subscriber.json;
 import static org.assertj.core.api.Assertions.assertThat;
 import static org.assertj.core.api.Assumptions.assumeThat;
+import static org.cryowarden.daemon.demo.JournalTrouble.STALE;
+import static org.cryowarden.daemon.demo.JournalTrouble.failures;
+import static org.cryowarden.daemon.demo.JournalTrouble.last;
+import static org.cryowarden.daemon.demo.JournalTrouble.recordedAgain;
+import static org.cryowarden.daemon.demo.JournalTrouble.toggle;
+import static org.cryowarden.daemon.demo.JournalTrouble.unrecorded;
 
 import ch.qos.logback.classic.Logger;
 import ch.qos.logback.classic.spi.ILoggingEvent;
@@ -14,14 +20,10 @@ import java.nio.file.Files;
 import java.nio.file.Path;
 import java.time.Duration;
 import java.util.List;
-import java.util.Optional;
-import java.util.OptionalInt;
 import org.cryowarden.daemon.journal.Journal;
 import org.cryowarden.daemon.journal.JournalEvent;
 import org.cryowarden.daemon.journal.JournalSettings;
 import org.cryowarden.daemon.run.Payloads;
-import org.cryowarden.simulator.emulators.Fault;
-import org.cryowarden.simulator.emulators.FaultKind;
 import org.cryowarden.simulator.emulators.Instrument;
 import org.junit.jupiter.api.AfterEach;
 import org.junit.jupiter.api.BeforeAll;
@@ -37,8 +39,6 @@ import org.slf4j.LoggerFactory;
  * journal records again and its first event tells how many were lost and since when; the sequence has no gap.
  */
 class JournalDiskFullTest {
-
-    private static final String STALE = "o2-magnet-hall-east-stale";
 
     @TempDir
     Path folder;
@@ -138,27 +138,6 @@ class JournalDiskFullTest {
 
     // ---- helpers ----
 
-    /** One round: 15 s of silence from the oxygen module (its stale alarms rise), then 15 s of answers. */
-    private static void toggle(Night night, Instrument aim) throws InterruptedException {
-        aim.startFault(new Fault(FaultKind.SILENCE, 0, Duration.ZERO, OptionalInt.empty(),
-                night.simulator.elapsed().toSeconds()));
-        night.steps(15);
-        aim.clearFault(Optional.of(FaultKind.SILENCE));
-        night.steps(15);
-    }
-
-    private static long failures(Night night) {
-        return (long) night.daemon.meters().get("cryowarden_journal_failures").functionCounter().count();
-    }
-
-    private static boolean recordedAgain(Night night) {
-        try {
-            return night.daemon.eventsAfter(0, 100_000).stream().anyMatch(e -> e.kind().equals("journal.gap"));
-        } catch (Exception e) {
-            return false;
-        }
-    }
-
     private static void fill(Path filler) {
         byte[] block = new byte[64 * 1024];
         try (OutputStream out = Files.newOutputStream(filler)) {
@@ -168,15 +147,5 @@ class JournalDiskFullTest {
         } catch (IOException full) {
             // No space left on the device: that is the point.
         }
-    }
-
-    private static List<JsonNode> unrecorded(Subscriber dashboard, String prefix) {
-        return dashboard.on(prefix + "/event").stream().map(m -> json(m)).filter(e -> e.has("recorded")).toList();
-    }
-
-    private static Subscriber.Message last(Subscriber dashboard, String topic) {
-        List<Subscriber.Message> messages = dashboard.on(topic);
-        return messages.isEmpty() ? new Subscriber.Message(topic, "{}", false, new byte[0])
-                : messages.get(messages.size() - 1);
     }
 }

@@ -80,8 +80,8 @@ class KillNineJarProcessTest {
                 // Freeze the physics with the hall's air still thin: the 2oo3 alarm (5 s on-delay) follows and stays.
                 physics.stop();
                 assertThat(physics.await(Duration.ofSeconds(10))).isTrue();
-                dashboard.request(prefix + "/command/ack", "{\"target\": \"" + EVACUATE + "\", \"operator\": \"Ada\","
-                        + " \"note\": \"fan running\"}", prefix + "/replies/kill", "ack-1");
+                dashboard.request(prefix + "/command/ack", "{\"target\": \"" + EVACUATE + "\", \"operator\": \""
+                        + DemoNight.OPERATOR + "\", \"note\": \"fan running\"}", prefix + "/replies/kill", "ack-1");
                 await(() -> !dashboard.on(prefix + "/replies/kill").isEmpty(), 30, first);
                 assertThat(dashboard.on(prefix + "/replies/kill").get(0).text()).isEqualTo("{\"ok\":true}");
                 await(() -> events(dashboard, prefix).contains("alarm.acknowledged " + EVACUATE), 30, first);
@@ -113,7 +113,7 @@ class KillNineJarProcessTest {
             assertThat(statesBefore.get(EVACUATE).stateJson()).contains("\"unacknowledged\":false");
             assertThat(eventsBefore).filteredOn(e -> e.kind().equals("alarm.acknowledged"))
                     .extracting(e -> e.subject().orElseThrow() + " by " + e.operator().orElseThrow())
-                    .containsExactly(EVACUATE + " by Ada");
+                    .containsExactly(EVACUATE + " by " + DemoNight.OPERATOR);
 
             dashboard.received.clear();
             try (JarProcess second = JarProcess.start(folder.resolve("second.log"), run)) {
@@ -132,7 +132,7 @@ class KillNineJarProcessTest {
                 }
                 assertThat(restored).contains(O2_LOW);
                 assertThat(after.get(O2_LOW).path("state").asText()).isEqualTo("active-unacknowledged");
-                assertThat(after.get(EVACUATE).path("acknowledged_by").asText()).isEqualTo("Ada");
+                assertThat(after.get(EVACUATE).path("acknowledged_by").asText()).isEqualTo(DemoNight.OPERATOR);
                 second.process.destroy(); // SIGTERM: a clean stop
                 assertThat(second.awaitExit(Duration.ofSeconds(30))).as(second.output()).isTrue();
                 assertThat(second.output()).contains("restored");

@@ -5,18 +5,12 @@ import static org.assertj.core.api.Assertions.assertThat;
 import ch.qos.logback.classic.Logger;
 import ch.qos.logback.classic.spi.ILoggingEvent;
 import ch.qos.logback.core.read.ListAppender;
-import java.net.URI;
-import java.net.http.HttpClient;
-import java.net.http.HttpRequest;
 import java.net.http.HttpResponse;
 import java.nio.charset.StandardCharsets;
 import java.util.List;
 import java.util.Map;
-import java.util.Optional;
 import java.util.TreeMap;
 import org.cryowarden.daemon.access.OperatorRoster;
-import org.cryowarden.daemon.access.OperatorRoster.Operator;
-import org.cryowarden.daemon.access.Role;
 import org.cryowarden.daemon.access.TokenHash;
 import org.cryowarden.daemon.api.ApiServer;
 import org.cryowarden.daemon.journal.JournalEvent;
@@ -40,16 +34,14 @@ class OperatorRolesOnMosquittoTest {
         Night.mosquittoRuns();
     }
 
-    private final String alanToken = TokenHash.newToken();
-    private final String adaToken = TokenHash.newToken();
-    private final String graceToken = TokenHash.newToken();
+    private final TestOperators operators = new TestOperators();
+    private final String alanToken = operators.viewerToken;
+    private final String adaToken = operators.operatorToken;
+    private final String graceToken = operators.supervisorToken;
 
     @Test
     void commandsBeyondTheOperatorsRoleAreRefusedAndJournaledOnBothPaths() throws Exception {
-        OperatorRoster roster = OperatorRoster.of(List.of(
-                new Operator("alan", Role.VIEWER, Optional.of(TokenHash.of(alanToken))),
-                new Operator("ada", Role.OPERATOR, Optional.of(TokenHash.of(adaToken))),
-                new Operator("grace", Role.SUPERVISOR, Optional.of(TokenHash.of(graceToken)))));
+        OperatorRoster roster = operators.roster();
         ListAppender<ILoggingEvent> logged = new ListAppender<>();
         Logger root = (Logger) LoggerFactory.getLogger(org.slf4j.Logger.ROOT_LOGGER_NAME);
         logged.start();
@@ -79,25 +71,25 @@ class OperatorRolesOnMosquittoTest {
             // The supervisor passes the role check; the engine then judges the state (nothing latched to reset).
             assertThat(answers.get("supervisor-reset")).doesNotContain("role", "operators section");
 
-            try (ApiServer api = ApiServer.start(night.daemon, 0, Optional.empty())) {
-                HttpResponse<String> impostor = post(night, api, adaToken, "ack",
+            try (ApiServer api = ApiServer.start(night.daemon, 0)) {
+                HttpResponse<String> impostor = TestOperators.post(night, api, adaToken, "ack",
                         "{\"target\": \"o2-magnet-hall-low\", \"operator\": \"grace\"}");
                 assertThat(impostor.statusCode()).isEqualTo(403);
                 assertThat(impostor.body()).contains("the command names operator 'grace' but the token is ada's");
-                HttpResponse<String> operatorBypass = post(night, api, adaToken, "bypass",
+                HttpResponse<String> operatorBypass = TestOperators.post(night, api, adaToken, "bypass",
                         "{\"target\": \"magnet-hall-ventilation\", \"operator\": \"ada\", \"duration\": \"1h\","
                                 + " \"reason\": \"fan service\"}");
                 assertThat(operatorBypass.statusCode()).isEqualTo(409);
                 assertThat(operatorBypass.body()).contains("operator 'ada' has the role operator; bypass needs a"
                         + " supervisor");
-                HttpResponse<String> viewerShelve = post(night, api, alanToken, "shelve",
+                HttpResponse<String> viewerShelve = TestOperators.post(night, api, alanToken, "shelve",
                         "{\"target\": \"o2-magnet-hall-low\", \"operator\": \"alan\", \"duration\": \"1h\","
                                 + " \"reason\": \"sensor swap\"}");
                 assertThat(viewerShelve.statusCode()).isEqualTo(409);
-                HttpResponse<String> unknownToken = post(night, api, TokenHash.newToken(), "ack",
+                HttpResponse<String> unknownToken = TestOperators.post(night, api, TokenHash.newToken(), "ack",
                         "{\"target\": \"o2-magnet-hall-low\", \"operator\": \"ada\"}");
                 assertThat(unknownToken.statusCode()).isEqualTo(401);
-                HttpResponse<String> supervisorShelve = post(night, api, graceToken, "shelve",
+                HttpResponse<String> supervisorShelve = TestOperators.post(night, api, graceToken, "shelve",
                         "{\"target\": \"o2-magnet-hall-low\", \"operator\": \"grace\", \"duration\": \"1h\","
                                 + " \"reason\": \"sensor swap\"}");
                 assertThat(supervisorShelve.body()).doesNotContain("role", "token");
@@ -124,14 +116,43 @@ class OperatorRolesOnMosquittoTest {
         }
     }
 
-    /** Posts while the night steps: in driven mode the engine answers the command at a step. */
-    private static HttpResponse<String> post(Night night, ApiServer api, String token, String verb, String body)
-            throws Exception {
-        HttpRequest request = HttpRequest.newBuilder(URI.create("http://127.0.0.1:" + api.port() + "/api/commands/"
-                        + verb)).header("Authorization", "Bearer " + token)
-                .POST(HttpRequest.BodyPublishers.ofString(body)).build();
-        var response = HttpClient.newHttpClient().sendAsync(request, HttpResponse.BodyHandlers.ofString());
-        night.stepUntil(response::isDone, 200);
-        return response.get();
+    @Test
+    void everyCommandIsRefusedAndJournaledOnBothPathsWhenTheSiteListsNoOperators() throws Exception {
+        try (Night night = Night.start(folder, Night.MOSQUITTO, false, s -> s.withOperators(OperatorRoster.none()));
+             Subscriber console = new Subscriber(Night.MOSQUITTO, night.prefix + "/replies/#")) {
+            night.stepUntil(night.daemon::acceptingCommands, 100);
+            String replies = night.prefix + "/replies/console";
+            console.request(night.prefix + "/command/ack", "{\"target\": \"o2-magnet-hall-low\", \"operator\":"
+                    + " \"duty-1\"}", replies, "ack");
+            console.request(night.prefix + "/command/reset", "{\"target\": \"magnet-hall-ventilation\","
+                    + " \"operator\": \"lab-lead\"}", replies, "reset");
+            night.stepUntil(() -> console.on(replies).size() >= 2, 200, () -> console.received.toString());
+            for (Subscriber.Message reply : console.on(replies)) {
+                assertThat(Payloads.JSON.readTree(reply.text()).path("error").asText())
+                        .as(new String(reply.correlation(), StandardCharsets.UTF_8))
+                        .isEqualTo(OperatorRoster.NO_OPERATORS);
+            }
+            try (ApiServer api = ApiServer.start(night.daemon, 0)) {
+                // Whatever token comes with it: there is no one it could belong to.
+                HttpResponse<String> ack = TestOperators.post(night, api, adaToken, "ack",
+                        "{\"target\": \"o2-magnet-hall-low\", \"operator\": \"duty-1\"}");
+                assertThat(ack.statusCode()).isEqualTo(403);
+                assertThat(Payloads.JSON.readTree(ack.body()).path("error").asText())
+                        .isEqualTo(OperatorRoster.NO_OPERATORS);
+                night.steps(2);
+                night.daemon.awaitQuiet(java.time.Duration.ofSeconds(5));
+            }
+            List<JournalEvent> events = night.daemon.eventsAfter(0, 5000);
+            assertThat(events).filteredOn(e -> e.kind().equals("command.refused"))
+                    .extracting(e -> Payloads.JSON.readTree(e.payloadJson()).path("via").asText() + " "
+                            + Payloads.JSON.readTree(e.payloadJson()).path("verb").asText() + " by "
+                            + e.operator().orElse("-") + ": "
+                            + Payloads.JSON.readTree(e.payloadJson()).path("reason").asText())
+                    .containsExactlyInAnyOrder("mqtt ack by duty-1: " + OperatorRoster.NO_OPERATORS,
+                            "mqtt reset by lab-lead: " + OperatorRoster.NO_OPERATORS,
+                            "http ack by duty-1: " + OperatorRoster.NO_OPERATORS);
+            assertThat(events).noneMatch(e -> e.kind().equals("alarm.acknowledged")
+                    || e.kind().equals("interlock.reset"));
+        }
     }
 }

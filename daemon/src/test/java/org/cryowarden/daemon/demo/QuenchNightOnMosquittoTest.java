@@ -83,12 +83,12 @@ class QuenchNightOnMosquittoTest {
                     daemon.awaitQuiet(Duration.ofSeconds(5));
                 }
                 String replies = prefix + "/replies/console-1";
-                dashboard.request(prefix + "/command/ack", "{\"target\": \"o2-magnet-hall-lwo\", \"operator\": \"Ada\"}",
-                        replies, "c1");
+                dashboard.request(prefix + "/command/ack", "{\"target\": \"o2-magnet-hall-lwo\", \"operator\": \""
+                        + DemoNight.OPERATOR + "\"}", replies, "c1");
                 dashboard.request(prefix + "/command/ack", "{\"target\": \"o2-magnet-hall-low\"", replies, "c2");
                 dashboard.request(prefix + "/command/ack", "{\"target\": \"o2-magnet-hall-low\"}", replies, "c3");
-                dashboard.request(prefix + "/command/ack", "{\"target\": \"o2-magnet-hall-low\", \"operator\": \"Ada\","
-                        + " \"note\": \"fan running, room closed\"}", replies, "c4");
+                dashboard.request(prefix + "/command/ack", "{\"target\": \"o2-magnet-hall-low\", \"operator\": \""
+                        + DemoNight.OPERATOR + "\", \"note\": \"fan running, room closed\"}", replies, "c4");
                 stepUntil(simulator, daemon, () -> dashboard.on(replies).size() >= 4, 2000);
 
                 // Replies come back matched by correlation data (those the engine decides come later).
@@ -106,7 +106,7 @@ class QuenchNightOnMosquittoTest {
                 // The retained alarm document goes out on commit; the event follows the refusals' events through
                 // the outbox: wait for both.
                 stepUntil(simulator, daemon, () -> dashboard.on(prefix + "/alarm/o2-magnet-hall-low").stream()
-                        .anyMatch(m -> m.text().contains("\"acknowledged_by\":\"Ada\""))
+                        .anyMatch(m -> m.text().contains("\"acknowledged_by\":\"" + DemoNight.OPERATOR + "\""))
                         && dashboard.on(prefix + "/event").stream()
                         .anyMatch(m -> m.text().contains("\"kind\":\"alarm.acknowledged\"")), 2000);
 
@@ -135,7 +135,7 @@ class QuenchNightOnMosquittoTest {
             assertThat(reading.path("value").asDouble()).isBetween(10.0, 21.5);
             JsonNode alarm = json(late.last(prefix + "/alarm/o2-magnet-hall-low", Duration.ofSeconds(5)));
             assertThat(alarm.path("priority").asText()).isEqualTo("critical");
-            assertThat(alarm.path("acknowledged_by").asText()).isEqualTo("Ada");
+            assertThat(alarm.path("acknowledged_by").asText()).isEqualTo(DemoNight.OPERATOR);
             assertThat(alarm.path("note").asText()).isEqualTo("fan running, room closed");
             JsonNode summary = json(late.last(prefix + "/summary", Duration.ofSeconds(5)));
             assertThat(summary.path("active").has("critical")).isTrue();

@@ -16,6 +16,8 @@ import java.util.ArrayList;
 import java.util.List;
 import java.util.Optional;
 import java.util.function.BooleanSupplier;
+import org.cryowarden.daemon.access.OperatorRoster;
+import org.cryowarden.daemon.access.Role;
 import org.cryowarden.daemon.notify.WebhookReceiver;
 import org.cryowarden.daemon.run.Daemon;
 import org.cryowarden.daemon.run.DaemonSettings;
@@ -50,6 +52,9 @@ class UnattendedNightTest {
 
     @TempDir
     Path folder;
+
+    /** The second contact acknowledges: an operator of the site whose id is the roster contact's. */
+    private static final String PAGED_OPERATOR = "tomas";
 
     private static final String ROSTER = """
             time_zone: UTC
@@ -105,12 +110,12 @@ class UnattendedNightTest {
                     Duration.ofSeconds(65));
             String alarm = calls(receiver, "tomas", "alarm").get(0).path("alarm").asText();
             assertThat(alarm).isEqualTo(first.path("alarm").asText());
-            var ack = daemon.command(new OperatorCommand("ack", alarm, "Tomas Reyes", "on my way",
+            var ack = daemon.command(new OperatorCommand("ack", alarm, PAGED_OPERATOR, "on my way",
                     Optional.empty(), "")); // driven: the engine takes it at the next step
             stepper.until(ack::isDone, 5);
             assertThat(ack.get()).isEmpty();
             stepper.until(() -> !calls(receiver, "ines", "taken").isEmpty(), 30);
-            assertThat(calls(receiver, "ines", "taken").get(0).path("operator").asText()).isEqualTo("Tomas Reyes");
+            assertThat(calls(receiver, "ines", "taken").get(0).path("operator").asText()).isEqualTo(PAGED_OPERATOR);
             stepper.steps(10); // acknowledged: nothing further for this alarm
             assertThat(receiver.calls().stream().map(c -> json(c.text()))
                     .filter(j -> j.path("alarm").asText().equals(alarm)).map(j -> j.path("id").asText()
@@ -263,7 +268,9 @@ class UnattendedNightTest {
                 String id = java.util.UUID.randomUUID().toString();
                 DaemonSettings settings = DaemonSettings.read(configuration.site(), examples)
                         .withBroker(Optional.of(Night.MOSQUITTO), 1883).withPrefix("cryowarden-test/" + id, "test-" + id)
-                        .withJournal(folder.resolve("journal.db")).withApi(Optional.empty(), Optional.empty());
+                        .withJournal(folder.resolve("journal.db")).withApi(Optional.empty(), Optional.empty())
+                        .withOperators(OperatorRoster.of(List.of(new OperatorRoster.Operator(PAGED_OPERATOR,
+                                Role.OPERATOR, Optional.empty()))));
                 RelayModule relay = (RelayModule) simulator.instrument("relay-1").orElseThrow();
                 Stepper stepper = new Stepper(simulator, relay, clock);
                 stepper.sample();

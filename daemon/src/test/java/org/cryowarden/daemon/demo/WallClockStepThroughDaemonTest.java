@@ -52,7 +52,7 @@ class WallClockStepThroughDaemonTest {
 
                 long shelvedAt = lastSeq(night);
                 Instant wallBefore = night.simulator.clock().wallNow();
-                var done = night.daemon.command(new OperatorCommand("shelve", STALE, "Ada", "",
+                var done = night.daemon.command(new OperatorCommand("shelve", STALE, DemoNight.OPERATOR, "",
                         Optional.of(Duration.ofMinutes(1)), "sensor swap"));
                 night.step();
                 assertThat(done.get(5, TimeUnit.SECONDS)).isEmpty();
