@@ -30,8 +30,12 @@ final class DeviationEvaluator extends RuleEvaluator {
 
     @Override
     void onReading(ChannelNode node, Reading reading) {
+        onInput(node, indexOf(node), reading);
+    }
+
+    @Override
+    void onInput(ChannelNode node, int i, Reading reading) {
         lastNode = node;
-        int i = indexOf(node);
         if (reading.quality() == Quality.GOOD) {
             good[i] = true;
             values[i] = node.unit == unit ? reading.value() : node.unit.convert(reading.value(), unit, ambientPa);

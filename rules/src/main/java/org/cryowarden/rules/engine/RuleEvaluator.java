@@ -30,6 +30,11 @@ abstract class RuleEvaluator {
     /** A new reading on {@code node}, one of this rule's inputs, already in that channel's unit. */
     abstract void onReading(ChannelNode node, Reading reading);
 
+    /** {@link #onReading} for {@code node}, the rule's input number {@code input}, as the engine delivers it. */
+    void onInput(ChannelNode node, int input, Reading reading) {
+        onReading(node, reading);
+    }
+
     /** After a restore with the condition active: hold it until the rule can judge again. */
     void restoredActive() {
     }

@@ -41,8 +41,12 @@ final class VoteEvaluator extends RuleEvaluator {
 
     @Override
     void onReading(ChannelNode node, Reading reading) {
+        onInput(node, indexOf(node), reading);
+    }
+
+    @Override
+    void onInput(ChannelNode node, int i, Reading reading) {
         lastNode = node;
-        int i = indexOf(node);
         reported[i] = true;
         boolean was = tripped[i];
         boolean now;
