@@ -46,8 +46,10 @@ final class VoteEvaluator extends RuleEvaluator {
 
     @Override
     void onInput(ChannelNode node, int i, Reading reading) {
-        lastNode = node;
-        reported[i] = true;
+        saw(node);
+        if (!reported[i]) {
+            reported[i] = true;
+        }
         boolean was = tripped[i];
         boolean now;
         Quality quality = reading.quality();
@@ -65,7 +67,7 @@ final class VoteEvaluator extends RuleEvaluator {
             } else {
                 now = was;
             }
-            if (quality == Quality.GOOD) {
+            if (quality == Quality.GOOD && faulted[i]) {
                 faulted[i] = false;
             }
         }
