@@ -45,7 +45,7 @@ final class Texts {
      * The same text as {@link #exact} without big-number arithmetic, or null when it cannot be sure: causes are
      * written on every alarm change, and the exact route costs a microsecond. One scaling by an exactly
      * representable power of ten errs by at most half an ulp of a number below 10^6 (about 1e-10), so the six
-     * digits are certain unless the scaled value lies within 1e-9 of a rounding tie or of a power-of-ten boundary.
+     * digits are certain unless the scaled value lies within 1e-9 of a rounding tie.
      */
     private static String roundedFast(double value) {
         double magnitude = Math.abs(value);
@@ -63,7 +63,9 @@ final class Texts {
         }
         double whole = Math.floor(scaled);
         double fraction = scaled - whole;
-        if (Math.abs(fraction - 0.5) < 1e-9 || fraction < 1e-9 || fraction > 1 - 1e-9) {
+        // Near a whole number either side rounds to it, and near a decade boundary either exponent gives the same
+        // value; only near a tie can the error decide.
+        if (Math.abs(fraction - 0.5) < 1e-9) {
             return null;
         }
         long digits = (long) whole + (fraction > 0.5 ? 1 : 0);

@@ -44,7 +44,17 @@ class TextsTest {
         Random random = new Random(18_2_2016L);
         for (int i = 0; i < 200_000; i++) {
             double value;
-            switch (i % 4) {
+            switch (i % 5) {
+                case 4 -> {
+                    // Whole numbers of digits and decade boundaries, one ulp either side.
+                    double whole = (random.nextBoolean() ? 1 : random.nextInt(1_000_001)) * Math.pow(10,
+                            random.nextInt(24) - 10);
+                    value = switch (random.nextInt(3)) {
+                        case 0 -> Math.nextDown(whole);
+                        case 1 -> Math.nextUp(whole);
+                        default -> whole;
+                    };
+                }
                 case 0 -> value = Double.longBitsToDouble(random.nextLong());
                 case 1 -> value = (random.nextDouble() - 0.5) * Math.pow(10, random.nextInt(40) - 20);
                 case 2 -> value = Math.round(random.nextDouble() * 1e7) / Math.pow(10, random.nextInt(12));
