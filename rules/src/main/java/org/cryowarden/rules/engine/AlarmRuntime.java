@@ -30,6 +30,9 @@ final class AlarmRuntime {
     private final boolean latching;
     private final long onDelayNanos;
     private final long offDelayNanos;
+    /** The delay endings of causes, written at the first expiry of a delay. */
+    private String heldText;
+    private String clearText;
     InterlockRuntime trips;
     AlarmRuntime[] suppressors = NONE;
     final List<AlarmRuntime> suppresses = new ArrayList<>();
@@ -106,10 +109,11 @@ final class AlarmRuntime {
 
     private void delayExpired() {
         boolean raw = evaluator.raw;
-        String held = raw
-                ? ", held for the on-delay of " + Texts.nanos(onDelayNanos)
-                : ", clear for the off-delay of " + Texts.nanos(offDelayNanos);
-        setActive(raw, trigger, rawCause + held);
+        if (heldText == null) {
+            heldText = ", held for the on-delay of " + Texts.nanos(onDelayNanos);
+            clearText = ", clear for the off-delay of " + Texts.nanos(offDelayNanos);
+        }
+        setActive(raw, trigger, rawCause + (raw ? heldText : clearText));
     }
 
     private void setActive(boolean value, Reading reading, String cause) {

@@ -11,10 +11,16 @@ abstract class ChannelNode {
 
     private static final RuleEvaluator[] NO_RULES = new RuleEvaluator[0];
     private static final DerivedChannel[] NO_DERIVED = new DerivedChannel[0];
+    private static final int[] NO_INPUTS = new int[0];
 
     final String id;
     final Unit unit;
     RuleEvaluator[] rules = NO_RULES;
+    /**
+     * This channel's position among the inputs of each rule in {@link #rules}, found once here so that a rule of
+     * several channels (vote, deviation) need not search for it on every reading.
+     */
+    int[] ruleInputs = NO_INPUTS;
     DerivedChannel[] dependents = NO_DERIVED;
     /** Null until the first reading. */
     Reading latest;
@@ -24,10 +30,14 @@ abstract class ChannelNode {
         this.unit = unit;
     }
 
-    void addRule(RuleEvaluator rule) {
+    /** Adds a rule that reads this channel as its input number {@code input} (0 for a rule of one channel). */
+    void addRule(RuleEvaluator rule, int input) {
         RuleEvaluator[] grown = java.util.Arrays.copyOf(rules, rules.length + 1);
         grown[rules.length] = rule;
+        int[] positions = java.util.Arrays.copyOf(ruleInputs, ruleInputs.length + 1);
+        positions[ruleInputs.length] = input;
         rules = grown;
+        ruleInputs = positions;
     }
 
     void addDependent(DerivedChannel derived) {

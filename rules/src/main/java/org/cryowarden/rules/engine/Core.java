@@ -28,6 +28,8 @@ final class Core {
     final Map<String, ForecastChannel> forecasts = new LinkedHashMap<>();
     /** Set by {@link Wiring}. */
     FloodDetector flood;
+    /** {@link #measured} for the reading path; set by {@link Wiring}. */
+    MeasuredIndex measuredIndex;
 
     /** Monotonic nanoseconds of the call in progress. */
     long now;
@@ -72,8 +74,10 @@ final class Core {
     /** Hands a reading to the rules of its channel, then to the derived channels computed from it. */
     void deliver(ChannelNode node, Reading reading) {
         node.latest = reading;
-        for (RuleEvaluator rule : node.rules) {
-            rule.onReading(node, reading);
+        RuleEvaluator[] rules = node.rules;
+        int[] inputs = node.ruleInputs;
+        for (int i = 0; i < rules.length; i++) {
+            rules[i].onInput(node, inputs[i], reading);
         }
         for (DerivedChannel derived : node.dependents) {
             Reading computed = derived.recompute(reading);

@@ -14,6 +14,7 @@ final class DeviationEvaluator extends RuleEvaluator {
     private final ChannelNode[] channels;
     private final Unit unit;
     private final double tolerance;
+    private final String toleranceText;
     private final double ambientPa;
     private final double[] values;
     private final boolean[] good;
@@ -23,6 +24,7 @@ final class DeviationEvaluator extends RuleEvaluator {
         this.channels = channels;
         this.unit = channels[0].unit;
         this.tolerance = tolerance;
+        this.toleranceText = Texts.quantity(tolerance, unit);
         this.ambientPa = ambientPa;
         this.values = new double[channels.length];
         this.good = new boolean[channels.length];
@@ -30,8 +32,12 @@ final class DeviationEvaluator extends RuleEvaluator {
 
     @Override
     void onReading(ChannelNode node, Reading reading) {
-        lastNode = node;
-        int i = indexOf(node);
+        onInput(node, indexOf(node), reading);
+    }
+
+    @Override
+    void onInput(ChannelNode node, int i, Reading reading) {
+        saw(node);
         if (reading.quality() == Quality.GOOD) {
             good[i] = true;
             values[i] = node.unit == unit ? reading.value() : node.unit.convert(reading.value(), unit, ambientPa);
@@ -60,9 +66,9 @@ final class DeviationEvaluator extends RuleEvaluator {
         if (past != raw) {
             change(past, reading, past
                     ? channels[highest].id + " and " + channels[lowest].id + " differ by " + Texts.quantity(spread, unit)
-                            + ", more than the tolerance of " + Texts.quantity(tolerance, unit)
+                            + ", more than the tolerance of " + toleranceText
                     : "spread back to " + Texts.quantity(spread, unit) + ", within the tolerance of "
-                            + Texts.quantity(tolerance, unit));
+                            + toleranceText);
         }
     }
 

@@ -53,7 +53,7 @@ public final class Engine {
      *                                  programming error in the caller)
      */
     public List<EngineEvent> onReading(Reading reading) {
-        MeasuredChannel channel = core.measured.get(reading.channel());
+        MeasuredChannel channel = core.measuredIndex.get(reading.channel());
         if (channel == null) {
             String kind = core.channels.containsKey(reading.channel()) ? "is derived, not measured" : "is not configured";
             throw new IllegalArgumentException("channel '" + reading.channel() + "' " + kind

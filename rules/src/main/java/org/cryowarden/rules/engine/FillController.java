@@ -71,7 +71,7 @@ final class FillController extends RuleEvaluator {
 
     @Override
     void onReading(ChannelNode node, Reading reading) {
-        lastNode = node;
+        saw(node);
         if (reading.quality() != Quality.GOOD) {
             if (state == FillState.FILLING) {
                 close(FillStopReason.LEVEL_UNUSABLE, "level reading not GOOD: " + Texts.reading(reading));

@@ -81,7 +81,7 @@ final class ForecastEvaluator extends RuleEvaluator {
 
     @Override
     void onReading(ChannelNode node, Reading reading) {
-        lastNode = node;
+        saw(node);
         if (reading.quality() != Quality.GOOD) {
             publish(new Reading(idOrChannel(), Double.NaN, Unit.HOUR, reading.timestamp(), reading.quality(),
                     "no forecast: " + Texts.reading(reading)));

@@ -15,19 +15,23 @@ final class LimitEvaluator extends RuleEvaluator {
     private final boolean high;
     private final double setpoint;
     private final double deadband;
-    private final Unit unit;
+    /** The fixed ends of the causes, written once: " above 90 %", " back below 90 % by the deadband of 2 %". */
+    private final String pastText;
+    private final String backText;
 
     LimitEvaluator(AlarmRuntime alarm, Direction direction, double setpoint, double deadband, Unit unit) {
         super(alarm);
         this.high = direction == Direction.HIGH;
         this.setpoint = setpoint;
         this.deadband = deadband;
-        this.unit = unit;
+        this.pastText = (high ? " above " : " below ") + Texts.quantity(setpoint, unit);
+        this.backText = (high ? " back below " : " back above ") + Texts.quantity(setpoint, unit)
+                + (deadband == 0 ? "" : " by the deadband of " + Texts.quantity(deadband, unit));
     }
 
     @Override
     void onReading(ChannelNode node, Reading reading) {
-        lastNode = node;
+        saw(node);
         Quality quality = reading.quality();
         if (quality == Quality.BAD || quality == Quality.STALE) {
             return;
@@ -35,13 +39,10 @@ final class LimitEvaluator extends RuleEvaluator {
         double value = reading.value();
         if (!raw) {
             if (high ? value > setpoint : value < setpoint) {
-                change(true, reading, Texts.reading(reading) + (high ? " above " : " below ")
-                        + Texts.quantity(setpoint, unit));
+                change(true, reading, Texts.reading(reading) + pastText);
             }
         } else if (quality == Quality.GOOD && (high ? value <= setpoint - deadband : value >= setpoint + deadband)) {
-            change(false, reading, Texts.reading(reading) + (high ? " back below " : " back above ")
-                    + Texts.quantity(setpoint, unit) + (deadband == 0 ? "" : " by the deadband of "
-                    + Texts.quantity(deadband, unit)));
+            change(false, reading, Texts.reading(reading) + backText);
         }
     }
 }

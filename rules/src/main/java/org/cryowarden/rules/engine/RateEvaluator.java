@@ -58,7 +58,7 @@ final class RateEvaluator extends RuleEvaluator {
 
     @Override
     void onReading(ChannelNode node, Reading reading) {
-        lastNode = node;
+        saw(node);
         if (reading.quality() != Quality.GOOD) {
             return;
         }

@@ -43,7 +43,7 @@ final class StaleEvaluator extends RuleEvaluator {
 
     @Override
     void onReading(ChannelNode node, Reading reading) {
-        lastNode = node;
+        saw(node);
         Quality quality = reading.quality();
         if (quality == Quality.GOOD) {
             lastGood = core.now;

@@ -6,8 +6,8 @@ package org.cryowarden.rules.engine;
  */
 abstract class Timer {
 
-    /** Where it sits in {@link TimerQueue}'s heap, or -1 when not queued. */
-    int slot = -1;
+    /** Its number in {@link TimerQueue}, given at its first scheduling; -1 before. */
+    int id = -1;
     /** Whether it is queued. */
     boolean queued;
 

@@ -41,9 +41,15 @@ final class VoteEvaluator extends RuleEvaluator {
 
     @Override
     void onReading(ChannelNode node, Reading reading) {
-        lastNode = node;
-        int i = indexOf(node);
-        reported[i] = true;
+        onInput(node, indexOf(node), reading);
+    }
+
+    @Override
+    void onInput(ChannelNode node, int i, Reading reading) {
+        saw(node);
+        if (!reported[i]) {
+            reported[i] = true;
+        }
         boolean was = tripped[i];
         boolean now;
         Quality quality = reading.quality();
@@ -61,7 +67,7 @@ final class VoteEvaluator extends RuleEvaluator {
             } else {
                 now = was;
             }
-            if (quality == Quality.GOOD) {
+            if (quality == Quality.GOOD && faulted[i]) {
                 faulted[i] = false;
             }
         }

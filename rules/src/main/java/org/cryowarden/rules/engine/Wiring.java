@@ -58,6 +58,7 @@ final class Wiring {
     static Core build(EngineConfig config, TimeSource time, DerivedFunctions functions) {
         Wiring wiring = new Wiring(config, time, functions);
         wiring.channels();
+        wiring.core.measuredIndex = new MeasuredIndex(wiring.core.measured);
         wiring.derived();
         wiring.outputs();
         wiring.interlocks();
@@ -223,7 +224,7 @@ final class Wiring {
             alarm.evaluator = controller;
             core.alarms.put(def.id(), alarm);
             core.fills.put(def.id(), controller);
-            level.addRule(controller);
+            level.addRule(controller, 0);
         }
         // Blockers after every fill alarm exists: a fill may be blocked by another fill's fault alarm.
         for (FillController controller : core.fills.values()) {
@@ -252,11 +253,13 @@ final class Wiring {
             RuleEvaluator evaluator = evaluator(rule, alarm);
             alarm.evaluator = evaluator;
             Set<String> seen = new HashSet<>();
-            for (String input : rule.inputs()) {
+            List<String> inputs = rule.inputs();
+            for (int i = 0; i < inputs.size(); i++) {
+                String input = inputs.get(i);
                 if (!seen.add(input)) {
                     throw refuse(rule, "channel '" + input + "' is listed twice");
                 }
-                core.channels.get(input).addRule(evaluator);
+                core.channels.get(input).addRule(evaluator, i);
             }
         }
         for (RuleDef rule : config.ruleSet().rules()) {

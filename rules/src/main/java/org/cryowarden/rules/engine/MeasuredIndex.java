@@ -1,0 +1,48 @@
+package org.cryowarden.rules.engine;
+
+import java.util.Map;
+
+/**
+ * The measured channels by id, for the one lookup every reading makes. An open-addressed table of ids and channels
+ * side by side: a reading's id is usually the very string the configuration was built from (drivers take their ids
+ * from it), so the probe ends on a reference comparison in the key array, without the entry object and pointer
+ * hops of a hash map. Other strings are compared by content. Built once; never changes.
+ */
+final class MeasuredIndex {
+
+    private final String[] ids;
+    private final MeasuredChannel[] channels;
+    private final int mask;
+
+    MeasuredIndex(Map<String, MeasuredChannel> measured) {
+        int capacity = Integer.highestOneBit(Math.max(4, measured.size() * 4) - 1) << 1;
+        ids = new String[capacity];
+        channels = new MeasuredChannel[capacity];
+        mask = capacity - 1;
+        for (Map.Entry<String, MeasuredChannel> entry : measured.entrySet()) {
+            int slot = spread(entry.getKey().hashCode()) & mask;
+            while (ids[slot] != null) {
+                slot = (slot + 1) & mask;
+            }
+            ids[slot] = entry.getKey();
+            channels[slot] = entry.getValue();
+        }
+    }
+
+    /** The channel of that id, or null when it is not a measured channel. */
+    MeasuredChannel get(String id) {
+        int slot = spread(id.hashCode()) & mask;
+        String key;
+        while ((key = ids[slot]) != null) {
+            if (key == id || key.equals(id)) {
+                return channels[slot];
+            }
+            slot = (slot + 1) & mask;
+        }
+        return null;
+    }
+
+    private static int spread(int hash) {
+        return hash ^ (hash >>> 16);
+    }
+}
