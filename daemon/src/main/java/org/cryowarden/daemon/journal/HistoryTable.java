@@ -200,6 +200,7 @@ public final class HistoryTable {
     private <T> T read(String what, Journal.SqlWork<T> work) throws JournalException {
         synchronized (lock) {
             try {
+                files.checkWritable(); // a WAL read writes its read mark into the mapped -shm (see JournalFiles)
                 return work.run();
             } catch (SQLException e) {
                 throw new JournalException("journal " + file + ": could not read " + what + ": "

@@ -318,6 +318,7 @@ public final class Journal implements AutoCloseable {
     /** The recorded minutes of {@code channel} in {@code [from, to)}, oldest first. */
     public List<MinuteAggregate> aggregates(String channel, Instant from, Instant to) throws JournalException {
         synchronized (aggregateLock) {
+            checkReadable();
             try (PreparedStatement query = aggregatesConnection.prepareStatement("""
                     SELECT minute_ms, min_value, sum_value, max_value, good_count, total_count FROM minute_aggregate
                     WHERE channel = ? AND minute_ms >= ? AND minute_ms < ? ORDER BY minute_ms""")) {
@@ -347,6 +348,7 @@ public final class Journal implements AutoCloseable {
     /** Every channel with recorded minutes, by id: what the morning report plots when no site file is given. */
     public List<String> aggregateChannels() throws JournalException {
         synchronized (aggregateLock) {
+            checkReadable();
             try (Statement statement = aggregatesConnection.createStatement();
                  ResultSet rows = statement.executeQuery(
                          "SELECT DISTINCT channel FROM minute_aggregate ORDER BY channel")) {
@@ -498,10 +500,22 @@ public final class Journal implements AutoCloseable {
         }
     }
 
+    /** As {@link JournalFiles#checkWritable}, for the aggregate reads that do not go through {@link #read}. */
+    private void checkReadable() throws JournalException {
+        try {
+            files.checkWritable();
+        } catch (SQLException e) {
+            throw new JournalException("journal " + file + ": cannot read: " + SqliteProblems.explain(e, file), e);
+        }
+    }
+
     private <T> T read(String what, SqlWork<T> work) throws JournalException {
         synchronized (recordLock) {
             ensureOpen(what);
             try {
+                // A read in WAL mode writes its read mark into the memory-mapped -shm: on a file that can no
+                // longer be written that is a SIGBUS, not an error, so it is asked first like a write.
+                files.checkWritable();
                 return work.run();
             } catch (SQLException e) {
                 throw new JournalException("journal " + file + ": could not read " + what + ": "

@@ -33,52 +33,67 @@ final class NoticeOutbox {
         return SINK_PREFIX + sender;
     }
 
-    void enqueue(List<Message> messages, Instant at) throws JournalException {
+    /** A notice in the journal's outbox: the sender that delivers it and its outbox entry. */
+    record Queued(String sender, long entryId, Notice notice) {
+    }
+
+    List<Queued> enqueue(List<Message> messages, Instant at) throws JournalException {
         if (messages.isEmpty()) {
-            return;
+            return List.of();
         }
-        journal.write(messages.size() + " notices", tx -> {
+        return journal.write(messages.size() + " notices", tx -> {
+            List<Queued> queued = new java.util.ArrayList<>();
             for (Message message : messages) {
                 for (Roster.Reach reach : message.contact().reach()) {
-                    Notice notice = new Notice(message.id(), message.contact().id(), reach.address(),
-                            message.subject(), message.text(), text(message.json()));
+                    Notice notice = notice(message, reach);
                     ObjectNode event = describe(notice, reach.sender());
                     event.put("notice_kind", message.kind());
                     event.put("cause", message.subject());
                     long seq = tx.appendEvent(new NewEvent("notify.queued", at, Optional.of(message.contact().id()),
                             Optional.empty(), text(event)));
-                    tx.enqueue(sink(reach.sender()), reach.address(), text(store(notice)),
+                    long id = tx.enqueue(sink(reach.sender()), reach.address(), text(store(notice)),
                             OptionalLong.of(seq), at);
+                    queued.add(new Queued(reach.sender(), id, notice));
                 }
             }
-            return null;
+            return queued;
         });
     }
 
-    Optional<OutboxEntry> head(String sender) throws JournalException {
-        List<OutboxEntry> entries = journal.undelivered(sink(sender), 1);
-        return entries.isEmpty() ? Optional.empty() : Optional.of(entries.get(0));
+    /** The notice {@code message} becomes for one reach of its contact. */
+    static Notice notice(Message message, Roster.Reach reach) {
+        return new Notice(message.id(), message.contact().id(), reach.address(), message.subject(), message.text(),
+                text(message.json()));
+    }
+
+    /** The undelivered entries of {@code sender}, oldest first, at most {@code limit}. */
+    List<OutboxEntry> undelivered(String sender, int limit) throws JournalException {
+        return journal.undelivered(sink(sender), limit);
+    }
+
+    void markDelivered(long entryId, Instant at) throws JournalException {
+        journal.markDelivered(entryId, at);
     }
 
     long depth(String sender) throws JournalException {
         return journal.outboxDepth(sink(sender));
     }
 
-    void delivered(OutboxEntry entry, Notice notice, String sender, String detail, Instant at)
+    void delivered(long entryId, int attempt, Notice notice, String sender, String detail, Instant at)
             throws JournalException {
-        journal.markDelivered(entry.id(), at);
+        journal.markDelivered(entryId, at);
         ObjectNode event = describe(notice, sender);
-        event.put("attempt", entry.attempts() + 1);
+        event.put("attempt", attempt);
         event.put("detail", detail);
         journal.append(new NewEvent("notify.sent", at, Optional.of(notice.contact()), Optional.empty(),
                 text(event)));
     }
 
-    void failed(OutboxEntry entry, Notice notice, String sender, String detail, java.time.Duration retryIn,
-            Instant at) throws JournalException {
-        journal.recordAttempt(entry.id(), at);
+    void failed(long entryId, int attempt, Notice notice, String sender, String detail,
+            java.time.Duration retryIn, Instant at) throws JournalException {
+        journal.recordAttempt(entryId, at);
         ObjectNode event = describe(notice, sender);
-        event.put("attempt", entry.attempts() + 1);
+        event.put("attempt", attempt);
         event.put("detail", detail);
         event.put("retry_in", retryIn.toString());
         journal.append(new NewEvent("notify.failed", at, Optional.of(notice.contact()), Optional.empty(),

@@ -65,7 +65,8 @@ public final class NotifyService implements AutoCloseable {
     public java.util.Set<String> resume() throws JournalException {
         EscalationReplay.Outcome outcome = EscalationReplay.run(escalation, escalationClock, journal, roster);
         resumedThrough = outcome.lastSeq();
-        outbox.enqueue(outcome.missed(), time.wallNow());
+        senders.values().forEach(SenderQueue::load); // what the previous run left undelivered goes first
+        queue(outcome.missed());
         if (!outcome.open().isEmpty() || !outcome.missed().isEmpty()) {
             LOG.info("notify: resumed the escalation of {} from the journal ({} events, {} notices already queued);"
                     + " {} notices fell due while the daemon was down and go now: {}", outcome.open(),
@@ -100,21 +101,52 @@ public final class NotifyService implements AutoCloseable {
             messages.addAll(escalation.onEvent(next.event(), next.seq()));
         }
         messages.addAll(escalation.tick());
-        try {
-            outbox.enqueue(messages, time.wallNow());
-        } catch (JournalException e) {
-            LOG.error("could not queue {} notices in the journal; they are lost: {}", messages.size(),
-                    e.getMessage());
-        }
+        queue(messages);
         long due = escalation.nextDue();
         for (SenderQueue queue : senders.values()) {
             try {
                 due = Math.min(due, queue.runDue());
-            } catch (JournalException | RuntimeException e) {
+            } catch (RuntimeException e) {
                 LOG.error("notice delivery failed: {}", e.getMessage());
             }
         }
         return due;
+    }
+
+    /** Queues in the journal's outbox and with each sender; what the journal cannot take goes from memory. */
+    private void queue(List<Message> messages) {
+        try {
+            for (NoticeOutbox.Queued queued : outbox.enqueue(messages, time.wallNow())) {
+                SenderQueue queue = senders.get(queued.sender());
+                if (queue != null) {
+                    queue.add(queued.entryId(), queued.notice());
+                }
+            }
+        } catch (JournalException e) {
+            hold(messages, e);
+        }
+    }
+
+    /** Sends from memory what the journal could not queue: a full or read-only journal must not stop paging. */
+    private void hold(List<Message> messages, JournalException cause) {
+        int held = 0;
+        for (Message message : messages) {
+            for (Roster.Reach reach : message.contact().reach()) {
+                SenderQueue queue = senders.get(reach.sender());
+                if (queue != null) {
+                    queue.hold(NoticeOutbox.notice(message, reach));
+                    held++;
+                }
+            }
+        }
+        LOG.error("could not queue {} notices in the journal ({}); {} deliveries go from memory, unrecorded, and"
+                + " are lost if the daemon stops first", messages.size(), cause.getMessage(), held);
+    }
+
+    /** Notices of {@code sender} held in memory because the journal could not queue them. */
+    public int held(String sender) {
+        SenderQueue queue = senders.get(sender);
+        return queue == null ? 0 : queue.held();
     }
 
     /** Undelivered notices of {@code sender}. */

@@ -155,14 +155,16 @@ class JournalReadOnlyTest {
 
             immutable.freeze(journalFolder);
             relay.accepting(true);
-            night.stepUntil(() -> recorded(dashboard, night.prefix).stream().mapToLong(Long::longValue).max()
-                    .orElse(0) >= waiting, 3000);
-            // More events while read-only: each batch wakes the outbox sender, which must not repeat the window
-            // it could not mark delivered.
+            night.stepUntil(night.daemon::mqttConnected, 3000);
+            // More events while read-only: each batch wakes the outbox sender. The journal is not read while its
+            // files cannot be written (a WAL read writes its read mark into the mapped -shm, which would end the
+            // process with SIGBUS), so the waiting events stay in the outbox until it can be read again.
             toggle(night, aim);
             immutable.close();
             toggle(night, aim);
             night.stepUntil(() -> recordedAgain(night), 100);
+            night.stepUntil(() -> recorded(dashboard, night.prefix).stream().mapToLong(Long::longValue).max()
+                    .orElse(0) >= waiting, 3000);
 
             List<Long> seqs = recorded(dashboard, night.prefix);
             assertThat(seqs).as("event seqs on the dashboard").doesNotHaveDuplicates()

@@ -16,6 +16,7 @@ import java.util.List;
 import java.util.Optional;
 import javax.crypto.Mac;
 import javax.crypto.spec.SecretKeySpec;
+import org.cryowarden.daemon.journal.ImmutableFiles;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.extension.RegisterExtension;
 import org.junit.jupiter.api.io.TempDir;
@@ -274,6 +275,30 @@ class NightEscalationTest {
             night.pass(Duration.ofMinutes(40), Duration.ofSeconds(10));
 
             assertThat(calls(receiver)).containsExactly("a1.s1.ines ines alarm", "a1.recovered.ines ines recovered");
+        }
+    }
+
+    @Test
+    void pagingGoesOnWhileTheJournalCannotWriteAndNothingIsSentTwice() throws Exception {
+        try (WebhookReceiver receiver = new WebhookReceiver();
+                NightHarness night = new NightHarness(folder, ROSTER, receiver.url(), Optional.empty());
+                ImmutableFiles journalFiles = new ImmutableFiles()) {
+            receiver.down.set(true);
+            night.raise("n2-trap-low", "high", "cold trap level 12 % below 20 %");
+            night.pass(Duration.ofSeconds(20), Duration.ofSeconds(5)); // queued in the journal, not yet delivered
+            journalFiles.freeze(folder); // the journal turns read-only (chattr +i on its folder and files)
+            receiver.down.set(false);
+            night.raise("lhe-dewar-2-low", "high", "helium level 9 % below 10 %");
+            night.pass(Duration.ofMinutes(3), Duration.ofSeconds(5));
+
+            // In order: the notice queued before is delivered once although its delivery cannot be recorded, then
+            // the new one, which the journal could not queue, from memory.
+            assertThat(calls(receiver)).containsExactly("a100.s1.ines ines alarm", "a101.s1.ines ines alarm");
+            journalFiles.close(); // writable again: the remembered delivery is recorded, nothing is resent
+            night.pass(Duration.ofMinutes(3), Duration.ofSeconds(5));
+            assertThat(calls(receiver)).containsExactly("a100.s1.ines ines alarm", "a101.s1.ines ines alarm");
+            assertThat(night.service.depth("pager-hook")).isZero();
+            assertThat(night.service.held("pager-hook")).isZero();
         }
     }
 
