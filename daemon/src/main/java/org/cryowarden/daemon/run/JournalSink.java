@@ -208,6 +208,9 @@ final class JournalSink implements AutoCloseable {
         boolean anything = false;
         Optional<DaemonEvent> gap = Optional.empty();
         for (EventBatch batch : batches) {
+            if (!batch.events().isEmpty()) {
+                PathStage.mark(PathStage.TAKEN, batch.events().get(0).subject().orElse(""), 0);
+            }
             events += batch.events().size();
             anything |= !batch.events().isEmpty() || !batch.states().isEmpty();
             if (gap.isEmpty()) {
@@ -256,6 +259,8 @@ final class JournalSink implements AutoCloseable {
                     List<Long> numbered = numbers.get(b);
                     for (int i = 0; i < numbered.size(); i++) {
                         seqs.get(b).add(OptionalLong.of(numbered.get(i)));
+                        PathStage.mark(PathStage.COMMITTED, batches.get(b).events().get(i).subject().orElse(""),
+                                numbered.get(i));
                         EVENTS.info(batches.get(b).events().get(i).logLine(numbered.get(i)));
                     }
                 }

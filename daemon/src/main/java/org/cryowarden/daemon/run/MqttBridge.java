@@ -382,6 +382,7 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
             List<CompletableFuture<PublishResult>> sent = new ArrayList<>(entries.size());
             for (OutboxEntry entry : entries) {
                 sent.add(link.publish(OutgoingMessage.atLeastOnce(entry.target(), entry.payload(), false)));
+                PathStage.mark(PathStage.SENT, "", entry.seq().orElse(0));
             }
             List<Long> delivered = new ArrayList<>(entries.size());
             OutboxEntry failed = null;
