@@ -16,8 +16,9 @@ import java.util.Map;
  * The daemon's footprint over a night, scaled down: 200 channels polled at 1 Hz with their rules, the journal
  * and MQTT, at real speed for at least 10 minutes (an hour scaled by the run's length). Measured: heap in use
  * after a full GC, resident set (VmRSS of /proc/self/status), CPU of one core from the process CPU time with the
- * bench device's threads taken out, and journal growth per channel-hour. One channel crosses its limit every
- * 10 s and returns 3 s later, so alarms flow through the journal and the broker too.
+ * bench device's threads taken out (and, beside it, how much of the time the JIT spent compiling), and journal
+ * growth per channel-hour. One channel crosses its limit every 10 s and returns 3 s later, so alarms flow through
+ * the journal and the broker too.
  */
 final class FootprintSuite {
 
@@ -36,6 +37,8 @@ final class FootprintSuite {
             Thread.sleep(warm.toMillis());
             var os = (com.sun.management.OperatingSystemMXBean) ManagementFactory.getOperatingSystemMXBean();
             ThreadMXBean threads = ManagementFactory.getThreadMXBean();
+            var jit = ManagementFactory.getCompilationMXBean();
+            long jit0 = jit.isCompilationTimeMonitoringSupported() ? jit.getTotalCompilationTime() : 0;
             long cpu0 = os.getProcessCpuTime();
             long device0 = deviceCpu(plant, threads);
             long journal0 = plant.journalBytes();
@@ -58,6 +61,7 @@ final class FootprintSuite {
             }
             double wall = (System.nanoTime() - start) / 1e9;
             long cpu = os.getProcessCpuTime() - cpu0;
+            long jitMs = jit.isCompilationTimeMonitoringSupported() ? jit.getTotalCompilationTime() - jit0 : 0;
             long device = deviceCpu(plant, threads) - device0;
             long journalGrowth = plant.journalBytes() - journal0;
             long processed = LatencySuite.processed(plant) - processed0;
@@ -68,6 +72,7 @@ final class FootprintSuite {
             double rssMb = statusKb("VmRSS") / 1024.0;
             double cpuPercent = (cpu - device) / 1e9 / wall * 100;
             double processCpuPercent = cpu / 1e9 / wall * 100;
+            double jitPercent = jitMs / 1e3 / wall * 100;
             double channelHours = CHANNELS * wall / 3600;
             double journalPerChannelHour = journalGrowth / channelHours;
             Map<String, Double> figures = new LinkedHashMap<>();
@@ -98,6 +103,8 @@ final class FootprintSuite {
                     rssMb));
             lines.add(String.format(Locale.ROOT, "  CPU:            %.2f %% of one core (budget %.0f %%); %.2f %% with"
                     + " the bench device's threads", cpuPercent, CPU_BUDGET_PERCENT, processCpuPercent));
+            lines.add(String.format(Locale.ROOT, "                  JIT compiling meanwhile: %.2f %% (elapsed time of the"
+                    + " compilations, an upper bound on their share; it fades as the night goes on)", jitPercent));
             lines.add(String.format(Locale.ROOT, "  journal:        %,.0f bytes per channel-hour (%,d bytes in %.2f"
                     + " channel-hours)", journalPerChannelHour, journalGrowth, channelHours));
             lines.add(String.format(Locale.ROOT, "  readings:       %,.1f per second taken by the engine",

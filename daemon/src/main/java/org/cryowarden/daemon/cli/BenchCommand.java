@@ -44,6 +44,10 @@ final class BenchCommand implements Callable<Integer> {
                     + " broker when none answers there)")
     String broker;
 
+    @Option(names = "--stages", description = "latency: also time each hand-off on the alarm path (a Flight"
+            + " Recorder stream in the process, which costs some CPU of its own)")
+    boolean stages;
+
     @Override
     public Integer call() throws Exception {
         PrintWriter out = spec.commandLine().getOut();
@@ -63,7 +67,8 @@ final class BenchCommand implements Callable<Integer> {
             err.flush();
             return BAD_INPUT;
         }
-        BenchSettings settings = new BenchSettings(Optional.ofNullable(seconds).map(Duration::ofSeconds), broker, err);
+        BenchSettings settings = new BenchSettings(Optional.ofNullable(seconds).map(Duration::ofSeconds), broker, stages,
+                err);
         BenchResult result = Bench.run(suite, settings);
         out.println(json ? Payloads.text(result.json()) : result.text());
         out.flush();

@@ -150,6 +150,39 @@ public final class Journal implements AutoCloseable {
         }
     }
 
+    /**
+     * Like {@link #write}, but the commit does not wait for the disk ({@code synchronous=NORMAL} for this one
+     * transaction; WAL order keeps the file consistent): for delivery marks only. A mark that a power cut takes
+     * back sends its message once more, which receivers drop by its sequence number, whereas waiting for the disk
+     * here would hold the record connection, and with it the next event's commit, for a sync.
+     */
+    private <T> T writeUnsynced(String what, JournalWork<T> work) throws JournalException {
+        synchronized (recordLock) {
+            ensureOpen(what);
+            try {
+                synchronous(SQLiteConfig.SynchronousMode.NORMAL);
+            } catch (SQLException e) {
+                throw notRecorded(what, e);
+            }
+            try {
+                return write(what, work);
+            } finally {
+                try {
+                    synchronous(SQLiteConfig.SynchronousMode.FULL);
+                } catch (SQLException e) {
+                    LOG.error("journal {}: could not set synchronous=FULL again after {}: {}", file, what,
+                            SqliteProblems.explain(e));
+                }
+            }
+        }
+    }
+
+    private void synchronous(SQLiteConfig.SynchronousMode mode) throws SQLException {
+        try (Statement statement = records.createStatement()) {
+            statement.execute("PRAGMA synchronous = " + mode.name());
+        }
+    }
+
     /** Appends one event on its own; returns its sequence number. */
     public long append(NewEvent event) throws JournalException {
         return write(event.describe(), tx -> tx.appendEvent(event));
@@ -235,17 +268,20 @@ public final class Journal implements AutoCloseable {
 
     /** Marks an outbox entry delivered; call only after the sink confirmed delivery (MQTT: the PUBACK). */
     public void markDelivered(long outboxId, Instant at) throws JournalException {
-        write("delivery of outbox entry " + outboxId, tx -> update(
+        writeUnsynced("delivery of outbox entry " + outboxId, tx -> update(
                 "UPDATE outbox SET delivered_ms = ?, attempts = attempts + 1, last_attempt_ms = ? WHERE id = ?",
                 at.toEpochMilli(), at.toEpochMilli(), outboxId));
     }
 
-    /** Marks several outbox entries delivered in one transaction (one commit for a window of PUBACKs). */
+    /**
+     * Marks several outbox entries delivered in one transaction (one commit for a window of PUBACKs). Like every
+     * delivery mark it commits without waiting for the disk ({@link #writeUnsynced}).
+     */
     public void markDelivered(List<Long> outboxIds, Instant at) throws JournalException {
         if (outboxIds.isEmpty()) {
             return;
         }
-        write("delivery of outbox entries " + outboxIds.get(0) + " to " + outboxIds.get(outboxIds.size() - 1),
+        writeUnsynced("delivery of outbox entries " + outboxIds.get(0) + " to " + outboxIds.get(outboxIds.size() - 1),
                 tx -> {
                     for (long id : outboxIds) {
                         update("UPDATE outbox SET delivered_ms = ?, attempts = attempts + 1, last_attempt_ms = ?"

@@ -107,6 +107,7 @@ final class EngineLoop implements AutoCloseable {
     }
 
     void offer(Reading reading) {
+        PathStage.mark(PathStage.OFFERED, reading.channel(), 0);
         inbox.offer(reading);
     }
 
@@ -302,6 +303,9 @@ final class EngineLoop implements AutoCloseable {
                 LOG.error("reading of {} refused by the engine: {}", reading.channel(), e.getMessage());
                 continue;
             }
+            if (!events.isEmpty()) {
+                PathStage.mark(PathStage.EVALUATED, reading.channel(), 0);
+            }
             processed.incrementAndGet();
             sinks.taken(reading, time.wallNow());
             lagNanos = Math.max(0, Duration.between(reading.timestamp(), time.wallNow()).toNanos());
@@ -390,7 +394,9 @@ final class EngineLoop implements AutoCloseable {
                 states.put(SnapshotJson.FILL_KEY + record.id(), SnapshotJson.fill(record));
             }
         }
-        sinks.batch(new EventBatch(mapped, states, documents, summary()));
+        EventBatch batch = new EventBatch(mapped, states, documents, summary());
+        PathStage.mark(PathStage.QUEUED, mapped.get(0).subject().orElse(""), 0);
+        sinks.batch(batch);
     }
 
     private Map<String, EngineSnapshot.AlarmRecord> records() {

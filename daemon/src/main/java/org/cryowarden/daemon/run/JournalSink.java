@@ -15,6 +15,7 @@ import java.util.concurrent.TimeUnit;
 import java.util.concurrent.atomic.AtomicLong;
 import org.cryowarden.daemon.journal.Journal;
 import org.cryowarden.daemon.journal.JournalException;
+import org.cryowarden.daemon.journal.OutboxEntry;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 
@@ -36,11 +37,21 @@ final class JournalSink implements AutoCloseable {
 
     /**
      * A batch as recorded, with the sequence number of each event (empty when the journal failed) and, when it
-     * failed, why, in words an operator can act on.
+     * failed, why, in words an operator can act on; {@code outbox} holds the event-topic entries the same commit
+     * queued for the batch, in id order (a {@code journal.gap} event's first), so that the MQTT bridge sends them
+     * without reading them back (empty when the journal failed).
      */
-    record Committed(EventBatch batch, List<OptionalLong> seqs, Optional<String> problem) {
+    record Committed(EventBatch batch, List<OptionalLong> seqs, Optional<String> problem, List<OutboxEntry> outbox) {
         Committed(EventBatch batch, List<OptionalLong> seqs) {
             this(batch, seqs, Optional.empty());
+        }
+
+        Committed(EventBatch batch, List<OptionalLong> seqs, Optional<String> problem) {
+            this(batch, seqs, problem, List.of());
+        }
+
+        Committed {
+            outbox = List.copyOf(outbox);
         }
     }
 
@@ -201,13 +212,18 @@ final class JournalSink implements AutoCloseable {
             return;
         }
         List<List<OptionalLong>> seqs = new ArrayList<>(batches.size());
+        List<List<OutboxEntry>> queued = new ArrayList<>(batches.size());
         for (int b = 0; b < batches.size(); b++) {
             seqs.add(new ArrayList<>());
+            queued.add(new ArrayList<>());
         }
         int events = 0;
         boolean anything = false;
         Optional<DaemonEvent> gap = Optional.empty();
         for (EventBatch batch : batches) {
+            if (!batch.events().isEmpty()) {
+                PathStage.mark(PathStage.TAKEN, batch.events().get(0).subject().orElse(""), 0);
+            }
             events += batch.events().size();
             anything |= !batch.events().isEmpty() || !batch.states().isEmpty();
             if (gap.isEmpty()) {
@@ -219,19 +235,21 @@ final class JournalSink implements AutoCloseable {
             Optional<DaemonEvent> gapEvent = gap;
             try {
                 List<List<Long>> numbers = journal.write(events + " events", tx -> {
+                    for (List<OutboxEntry> entries : queued) {
+                        entries.clear();
+                    }
                     if (gapEvent.isPresent()) {
                         long seq = tx.appendEvent(gapEvent.get().toJournal());
-                        tx.enqueue("mqtt", eventTopic, Payloads.text(gapEvent.get().published(seq)),
-                                OptionalLong.of(seq), gapEvent.get().at());
+                        queued.get(0).add(enqueue(tx, gapEvent.get(), seq));
                     }
                     List<List<Long>> result = new ArrayList<>(batches.size());
-                    for (EventBatch batch : batches) {
+                    for (int b = 0; b < batches.size(); b++) {
+                        EventBatch batch = batches.get(b);
                         List<Long> numbered = new ArrayList<>(batch.events().size());
                         long last = -1;
                         for (DaemonEvent event : batch.events()) {
                             long seq = tx.appendEvent(event.toJournal());
-                            tx.enqueue("mqtt", eventTopic, Payloads.text(event.published(seq)), OptionalLong.of(seq),
-                                    event.at());
+                            queued.get(b).add(enqueue(tx, event, seq));
                             numbered.add(seq);
                             last = seq;
                         }
@@ -256,6 +274,8 @@ final class JournalSink implements AutoCloseable {
                     List<Long> numbered = numbers.get(b);
                     for (int i = 0; i < numbered.size(); i++) {
                         seqs.get(b).add(OptionalLong.of(numbered.get(i)));
+                        PathStage.mark(PathStage.COMMITTED, batches.get(b).events().get(i).subject().orElse(""),
+                                numbered.get(i));
                         EVENTS.info(batches.get(b).events().get(i).logLine(numbered.get(i)));
                     }
                 }
@@ -279,7 +299,8 @@ final class JournalSink implements AutoCloseable {
             }
         }
         for (int b = 0; b < batches.size(); b++) {
-            Committed committed = new Committed(batches.get(b), seqs.get(b), problem);
+            Committed committed = new Committed(batches.get(b), seqs.get(b), problem,
+                    problem.isPresent() ? List.of() : queued.get(b));
             for (Listener listener : listeners) {
                 try {
                     listener.committed(committed);
@@ -288,6 +309,14 @@ final class JournalSink implements AutoCloseable {
                 }
             }
         }
+    }
+
+    /** Queues {@code event} as {@code seq} for the event topic; returns the entry as the outbox now holds it. */
+    private OutboxEntry enqueue(org.cryowarden.daemon.journal.JournalTransaction tx, DaemonEvent event, long seq)
+            throws java.sql.SQLException {
+        String payload = Payloads.text(event.published(seq));
+        long id = tx.enqueue(MqttBridge.OUTBOX_SINK, eventTopic, payload, OptionalLong.of(seq), event.at());
+        return new OutboxEntry(id, MqttBridge.OUTBOX_SINK, eventTopic, payload, OptionalLong.of(seq), event.at(), 0);
     }
 
     /** The {@code journal.gap} event to record first once the journal writes again after failing. */

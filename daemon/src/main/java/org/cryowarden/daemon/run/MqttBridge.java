@@ -2,28 +2,23 @@ package org.cryowarden.daemon.run;
 
 import com.fasterxml.jackson.databind.node.ObjectNode;
 import java.nio.charset.StandardCharsets;
-import java.time.Duration;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.Optional;
 import java.util.concurrent.CompletableFuture;
-import java.util.concurrent.ExecutionException;
 import java.util.concurrent.TimeUnit;
-import java.util.concurrent.TimeoutException;
 import java.util.concurrent.atomic.AtomicLong;
 import java.util.concurrent.locks.Condition;
 import java.util.concurrent.locks.ReentrantLock;
 import java.util.function.Function;
 import org.cryowarden.daemon.journal.Journal;
 import org.cryowarden.daemon.journal.JournalException;
-import org.cryowarden.daemon.journal.OutboxEntry;
 import org.cryowarden.daemon.mqtt.ConnectionListener;
 import org.cryowarden.daemon.mqtt.IncomingMessage;
 import org.cryowarden.daemon.mqtt.MqttLink;
 import org.cryowarden.daemon.mqtt.OutgoingMessage;
-import org.cryowarden.daemon.mqtt.PublishResult;
 import org.cryowarden.rules.Reading;
 import org.cryowarden.rules.TimeSource;
 import org.slf4j.Logger;
@@ -36,9 +31,9 @@ import org.slf4j.LoggerFactory;
  *       reading thread, which also feeds the journal's minute aggregates;</li>
  *   <li>{@code alarm/<alarm>} retained QoS 1 and {@code summary} retained QoS 1, published once the journal
  *       recorded the change;</li>
- *   <li>{@code event} QoS 1 from the journal's outbox in sequence order, a window of them in flight on the one
- *       connection, each marked delivered after its PUBACK, so a broker outage delays events but never loses or
- *       reorders them;</li>
+ *   <li>{@code event} QoS 1 from the journal's outbox in sequence order ({@link EventOutbox}): sent by the journal
+ *       thread as soon as it committed them, a window in flight, each marked delivered after its PUBACK, so a
+ *       broker outage delays events but never loses or reorders them;</li>
  *   <li>{@code command/<verb>} requests, answered on their MQTT 5 Response Topic with the Correlation Data;</li>
  *   <li>{@code journal} retained QoS 1, only once the journal failed: {@code not recording} with the problem, then
  *       {@code recording} again. Events the journal could not record go out on {@code event} at once, without
@@ -51,9 +46,6 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
     static final String OUTBOX_SINK = "mqtt";
 
     private static final Logger LOG = LoggerFactory.getLogger(MqttBridge.class);
-    private static final Duration PUBLISH_TIMEOUT = Duration.ofSeconds(30);
-    /** Events from the outbox in flight at once: within the link's default window of 32. */
-    private static final int OUTBOX_WINDOW = 32;
 
     private final MqttLink link;
     private final String prefix;
@@ -69,11 +61,11 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
     }
 
     private final ReentrantLock lock = new ReentrantLock();
-    private final Condition wake = lock.newCondition();
+    private final Condition readingsWaiting = lock.newCondition();
     private final LinkedHashMap<String, Reading> pendingReadings = new LinkedHashMap<>();
     private final Map<String, Reading> latestReadings = new LinkedHashMap<>();
     private boolean republishReadings;
-    private boolean outboxKick = true;
+    private final EventOutbox outbox;
 
     private final Object alarmLock = new Object();
     private final Map<String, String> alarmDocuments = new LinkedHashMap<>();
@@ -83,17 +75,8 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
     private String journalProblem;
 
     private final AtomicLong readingsPublished = new AtomicLong();
-    private final AtomicLong eventsPublished = new AtomicLong();
     private final AtomicLong commandsRefused = new AtomicLong();
     private final AtomicLong aggregateFailures = new AtomicLong();
-    private volatile long outboxDepth;
-    /**
-     * Outbox entries the broker acknowledged whose delivery the journal could not record (read-only, full): not
-     * sent again while it cannot, marked as soon as it can. Event thread only.
-     */
-    private final List<Long> deliveredUnmarked = new ArrayList<>();
-    /** Outbox rounds failed in a row on the journal. Event thread only. */
-    private long outboxFailures;
     private volatile CompletableFuture<Void> commandsGranted = new CompletableFuture<>();
     private volatile boolean running;
     private final List<Thread> threads = new ArrayList<>();
@@ -107,6 +90,7 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
         this.rbe = rbe;
         this.commands = commands;
         this.refusals = refusals;
+        this.outbox = new EventOutbox(link, journal, OUTBOX_SINK, time);
     }
 
     String prefix() {
@@ -120,11 +104,11 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
             public void connected(boolean reconnect) {
                 LOG.info("MQTT connected{}; publishing the current state under {}/", reconnect ? " again" : "", prefix);
                 republishAlarms();
+                outbox.connected();
                 lock.lock();
                 try {
                     republishReadings = true;
-                    outboxKick = true;
-                    wake.signalAll();
+                    readingsWaiting.signal();
                 } finally {
                     lock.unlock();
                 }
@@ -138,15 +122,19 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
         commandsGranted = link.subscribe(prefix + "/command/+", 1, this::onCommand);
         link.start();
         threads.add(thread("mqtt readings", this::readingLoop));
-        threads.add(thread("mqtt events", this::eventLoop));
+        threads.add(thread("mqtt events", outbox::loop));
     }
 
     /** From the engine thread: the newest reading of a channel; never blocks. */
     void offerReading(Reading reading) {
         lock.lock();
         try {
+            // The reading thread takes everything pending at once: only the first reading needs to wake it.
+            boolean first = pendingReadings.isEmpty();
             pendingReadings.put(reading.channel(), reading);
-            wake.signalAll();
+            if (first) {
+                readingsWaiting.signal();
+            }
         } finally {
             lock.unlock();
         }
@@ -154,6 +142,9 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
 
     @Override
     public void committed(JournalSink.Committed committed) {
+        // The events first, sent from this (the journal's) thread when nothing older waits: no read back, no
+        // hand-off, and no alarm document or summary ahead of them on the connection.
+        outbox.committed(committed.outbox());
         EventBatch batch = committed.batch();
         synchronized (alarmLock) {
             for (Map.Entry<String, ObjectNode> alarm : batch.alarms().entrySet()) {
@@ -171,15 +162,6 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
             }
         }
         journalState(committed);
-        if (!batch.events().isEmpty()) {
-            lock.lock();
-            try {
-                outboxKick = true;
-                wake.signalAll();
-            } finally {
-                lock.unlock();
-            }
-        }
     }
 
     /** Publishes the watchdog's heartbeat on {@code <prefix>/heartbeat} (QoS 0, not retained) while connected. */
@@ -195,7 +177,7 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
     }
 
     long eventsPublished() {
-        return eventsPublished.get();
+        return outbox.published();
     }
 
     long commandsRefused() {
@@ -203,7 +185,7 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
     }
 
     long outboxDepth() {
-        return outboxDepth;
+        return outbox.depth();
     }
 
     boolean connected() {
@@ -218,9 +200,10 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
     /** Stops the threads and closes the link, publishing {@code offline} with the reason as the status. */
     void close(byte[] offline) {
         running = false;
+        outbox.stop();
         lock.lock();
         try {
-            wake.signalAll();
+            readingsWaiting.signalAll();
         } finally {
             lock.unlock();
         }
@@ -299,7 +282,7 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
             lock.lock();
             try {
                 if (pendingReadings.isEmpty() && !republishReadings) {
-                    wake.await(1, TimeUnit.SECONDS);
+                    readingsWaiting.await(1, TimeUnit.SECONDS);
                 }
                 readings = new ArrayList<>(pendingReadings.values());
                 pendingReadings.clear();
@@ -346,96 +329,6 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
                             Payloads.text(Payloads.reading(reading)).getBytes(StandardCharsets.UTF_8), true));
                 }
             }
-        }
-    }
-
-    private void eventLoop() {
-        while (running) {
-            lock.lock();
-            try {
-                if (!outboxKick) {
-                    wake.await(1, TimeUnit.SECONDS);
-                }
-                outboxKick = false;
-            } catch (InterruptedException e) {
-                return;
-            } finally {
-                lock.unlock();
-            }
-            try {
-                outboxDepth = journal.outboxDepth(OUTBOX_SINK);
-                if (link.isConnected()) {
-                    sendOutbox();
-                }
-                outboxFailures = 0;
-            } catch (JournalException e) {
-                // Every batch wakes this loop: while the journal cannot write, say so once in a while, not each time.
-                if (outboxFailures++ % 1000 == 0) {
-                    LOG.error("{} ({} failed attempts so far, logged once in 1000)", e.getMessage(), outboxFailures);
-                }
-            }
-        }
-    }
-
-    /**
-     * Sends undelivered events oldest first, up to {@value #OUTBOX_WINDOW} at a time: the link keeps them in order
-     * on its one connection (MQTT keeps the order of QoS 1 messages on a connection), so waiting for each PUBACK
-     * before the next publish would only add a round trip per event. Marks the acknowledged run in one transaction
-     * and stops at the first failure; what follows it is sent again, in order, after the next connect.
-     */
-    private void sendOutbox() throws JournalException {
-        while (running && link.isConnected()) {
-            if (!deliveredUnmarked.isEmpty()) {
-                // Until the journal takes these, sending the window again would only repeat them.
-                journal.markDelivered(deliveredUnmarked, time.wallNow());
-                deliveredUnmarked.clear();
-            }
-            List<OutboxEntry> entries = journal.undelivered(OUTBOX_SINK, OUTBOX_WINDOW);
-            if (entries.isEmpty()) {
-                outboxDepth = 0;
-                return;
-            }
-            List<CompletableFuture<PublishResult>> sent = new ArrayList<>(entries.size());
-            for (OutboxEntry entry : entries) {
-                sent.add(link.publish(OutgoingMessage.atLeastOnce(entry.target(), entry.payload(), false)));
-            }
-            List<Long> delivered = new ArrayList<>(entries.size());
-            OutboxEntry failed = null;
-            for (int i = 0; i < entries.size() && failed == null; i++) {
-                PublishResult result;
-                try {
-                    result = sent.get(i).get(PUBLISH_TIMEOUT.toMillis(), TimeUnit.MILLISECONDS);
-                } catch (InterruptedException e) {
-                    Thread.currentThread().interrupt();
-                    markDelivered(delivered);
-                    return;
-                } catch (ExecutionException | TimeoutException e) {
-                    result = new PublishResult.Failed(e.toString());
-                }
-                if (result.isDelivered()) {
-                    delivered.add(entries.get(i).id());
-                } else {
-                    failed = entries.get(i);
-                }
-            }
-            eventsPublished.addAndGet(delivered.size());
-            markDelivered(delivered);
-            if (failed != null) {
-                journal.recordAttempt(failed.id(), time.wallNow());
-                outboxDepth = journal.outboxDepth(OUTBOX_SINK);
-                return;
-            }
-            outboxDepth = journal.outboxDepth(OUTBOX_SINK);
-        }
-    }
-
-    /** Marks the entries delivered, or keeps them to mark later when the journal cannot write. */
-    private void markDelivered(List<Long> delivered) throws JournalException {
-        try {
-            journal.markDelivered(delivered, time.wallNow());
-        } catch (JournalException e) {
-            deliveredUnmarked.addAll(delivered);
-            throw e;
         }
     }
 

@@ -49,6 +49,24 @@ class BenchCommandTest {
     }
 
     @Test
+    @Timeout(value = 3, unit = TimeUnit.MINUTES)
+    void latencyWithStagesSplitsEveryLoadIntoItsHandOffs() {
+        StringWriter out = new StringWriter();
+        StringWriter err = new StringWriter();
+
+        int exit = commandLine(out, err).execute("bench", "latency", "--seconds", "1", "--stages");
+
+        assertThat(exit).as(err.toString()).isZero();
+        List<String> splits = out.toString().lines().filter(l -> l.strip().startsWith("hand-offs over")).toList();
+        assertThat(splits).hasSize(2);
+        for (String split : splits) {
+            // "hand-offs over N of M crossings": at least one crossing was followed through every stage.
+            assertThat(split).matches("\\s*hand-offs over [1-9]\\d* of \\d+ crossings.*");
+        }
+        assertThat(out.toString()).contains("took -> committed", "link -> subscriber");
+    }
+
+    @Test
     void unknownSuiteIsRefusedWithTheListOfSuites() {
         StringWriter out = new StringWriter();
         StringWriter err = new StringWriter();

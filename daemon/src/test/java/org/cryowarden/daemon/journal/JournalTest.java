@@ -221,6 +221,29 @@ class JournalTest {
     }
 
     @Test
+    void deliveryMarksKeepAfterReopeningAndLeaveEventCommitsFullySynchronous() throws Exception {
+        long[] ids = new long[3];
+        try (Journal journal = open()) {
+            for (int i = 0; i < 3; i++) {
+                ids[i] = journal.write("event " + i, tx -> {
+                    long seq = tx.appendEvent(raised("o2-low", T0));
+                    return tx.enqueue("mqtt", "site/event", "{\"seq\":" + seq + "}", OptionalLong.of(seq), T0);
+                });
+            }
+            journal.markDelivered(List.of(ids[0], ids[1]), T0.plusSeconds(1));
+            journal.markDelivered(ids[2], T0.plusSeconds(2));
+
+            // PRAGMA synchronous reports 2 for FULL (SQLite documentation, PRAGMA synchronous).
+            assertThat(journal.pragma("synchronous", false)).isEqualTo("2");
+            assertThat(journal.append(raised("o2-low", T0.plusSeconds(3)))).isEqualTo(4);
+        }
+        try (Journal journal = open()) {
+            assertThat(journal.undelivered("mqtt", 10)).isEmpty();
+            assertThat(journal.pragma("synchronous", false)).isEqualTo("2");
+        }
+    }
+
+    @Test
     void fullDiskNamesTheFileAndWhatWasNotRecorded() throws Exception {
         try (Journal journal = open()) {
             journal.limitPages(journal.pageCount());
