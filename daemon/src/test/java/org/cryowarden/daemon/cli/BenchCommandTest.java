@@ -17,9 +17,15 @@ import picocli.CommandLine;
 
 /**
  * Keeps every bench suite working: a one-second run of each through the command, checking the JSON's shape and
- * that each figure is a positive number. Whether a target is met depends on the machine and is not asserted.
+ * that each figure is a positive number (or, for a figure that can be zero over one second, not negative). Whether a target is met depends on the machine and is not asserted.
  */
 class BenchCommandTest {
+
+    /**
+     * Figures that may honestly be zero in one second: the journal file grows by whole pages, and its readings
+     * reach it in history blocks flushed minutes apart.
+     */
+    private static final java.util.Set<String> GROWS_SLOWLY = java.util.Set.of("journal_bytes_per_channel_hour");
 
     @ParameterizedTest
     @ValueSource(strings = {"engine", "bus", "latency", "publish", "footprint", "simulate"})
@@ -42,8 +48,13 @@ class BenchCommandTest {
             assertThat(result.get(section).isObject()).as(section).isTrue();
             assertThat(result.get(section).size()).as(section).isPositive();
         }
-        result.get("figures").fields().forEachRemaining(figure ->
-                assertThat(figure.getValue().asDouble()).as(figure.getKey()).isPositive());
+        result.get("figures").fields().forEachRemaining(figure -> {
+            if (GROWS_SLOWLY.contains(figure.getKey())) {
+                assertThat(figure.getValue().asDouble()).as(figure.getKey()).isNotNegative();
+            } else {
+                assertThat(figure.getValue().asDouble()).as(figure.getKey()).isPositive();
+            }
+        });
         result.get("reference").fields().forEachRemaining(figure ->
                 assertThat(figure.getValue().asDouble()).as(figure.getKey()).isPositive());
     }
