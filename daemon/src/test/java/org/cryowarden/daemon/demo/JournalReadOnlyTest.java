@@ -3,6 +3,7 @@ package org.cryowarden.daemon.demo;
 import static org.assertj.core.api.Assertions.assertThat;
 import static org.cryowarden.daemon.demo.JournalTrouble.STALE;
 import static org.cryowarden.daemon.demo.JournalTrouble.failures;
+import static org.cryowarden.daemon.demo.JournalTrouble.gaplessWithOneGap;
 import static org.cryowarden.daemon.demo.JournalTrouble.last;
 import static org.cryowarden.daemon.demo.JournalTrouble.recordedAgain;
 import static org.cryowarden.daemon.demo.JournalTrouble.toggle;
@@ -21,11 +22,8 @@ import java.util.List;
 import java.util.stream.Stream;
 import org.cryowarden.daemon.history.HistoryRecorder;
 import org.cryowarden.daemon.journal.ImmutableFiles;
-import org.cryowarden.daemon.journal.Journal;
 import org.cryowarden.daemon.journal.JournalEvent;
-import org.cryowarden.daemon.journal.JournalSettings;
 import org.cryowarden.daemon.mqtt.TcpRelay;
-import org.cryowarden.daemon.run.Payloads;
 import org.cryowarden.simulator.emulators.Instrument;
 import org.junit.jupiter.api.AfterEach;
 import org.junit.jupiter.api.BeforeAll;
@@ -113,25 +111,17 @@ class JournalReadOnlyTest {
                     .equals("recording"), 100);
             int published = unrecorded(dashboard, night.prefix).size();
             night.daemon.awaitQuiet(Duration.ofSeconds(5));
-            try (Journal journal = Journal.open(journalFile, JournalSettings.defaults())) {
-                List<JournalEvent> all = journal.eventsAfter(0, 100_000);
-                for (int i = 0; i < all.size(); i++) {
-                    assertThat(all.get(i).seq()).as("seq of event %d", i).isEqualTo(i + 1L);
-                }
-                JournalEvent gap = all.stream().filter(e -> e.kind().equals("journal.gap")).findFirst().orElseThrow();
-                JsonNode payload = Payloads.JSON.readTree(gap.payloadJson());
-                assertThat(payload.path("not_recorded").asLong()).isEqualTo(published);
-                assertThat(payload.path("problem").asText()).contains("read-only");
-                assertThat(all).as("events recorded after the gap").anyMatch(e -> e.seq() > gap.seq()
-                        && e.kind().startsWith("alarm."));
-                // The history writer retries at each flush and says so once, not once per attempt.
-                assertThat(history.list).filteredOn(e -> e.getLevel() == Level.ERROR).hasSize(1);
-                assertThat(history.list).extracting(ILoggingEvent::getFormattedMessage)
-                        .anyMatch(line -> line.startsWith("raw history: writes again after"));
-                System.out.printf("journal read-only: %d journal failures, %d events not recorded and all %d"
-                        + " published marked; %d events recorded, gapless%n", failures(night) - failuresBefore,
-                        published, published, all.size());
-            }
+            List<JournalEvent> all = gaplessWithOneGap(journalFile, published, "read-only");
+            JournalEvent gap = all.stream().filter(e -> e.kind().equals("journal.gap")).findFirst().orElseThrow();
+            assertThat(all).as("events recorded after the gap").anyMatch(e -> e.seq() > gap.seq()
+                    && e.kind().startsWith("alarm."));
+            // The history writer retries at each flush and says so once, not once per attempt.
+            assertThat(history.list).filteredOn(e -> e.getLevel() == Level.ERROR).hasSize(1);
+            assertThat(history.list).extracting(ILoggingEvent::getFormattedMessage)
+                    .anyMatch(line -> line.startsWith("raw history: writes again after"));
+            System.out.printf("journal read-only: %d journal failures, %d events not recorded and all %d"
+                    + " published marked; %d events recorded, gapless%n", failures(night) - failuresBefore,
+                    published, published, all.size());
         } finally {
             historyLog.detachAppender(history);
         }

@@ -55,4 +55,26 @@ final class JournalTrouble {
         return messages.isEmpty() ? new Subscriber.Message(topic, "{}", false, new byte[0])
                 : messages.get(messages.size() - 1);
     }
+
+    /**
+     * Reads the journal after the trouble: every event numbered without a gap, and one {@code journal.gap} that
+     * counts exactly the {@code published} events that went out unrecorded and names the {@code problem}.
+     */
+    static List<org.cryowarden.daemon.journal.JournalEvent> gaplessWithOneGap(java.nio.file.Path journalFile,
+            int published, String problem) throws Exception {
+        try (org.cryowarden.daemon.journal.Journal journal = org.cryowarden.daemon.journal.Journal.open(journalFile,
+                org.cryowarden.daemon.journal.JournalSettings.defaults())) {
+            List<org.cryowarden.daemon.journal.JournalEvent> all = journal.eventsAfter(0, 100_000);
+            for (int i = 0; i < all.size(); i++) {
+                org.assertj.core.api.Assertions.assertThat(all.get(i).seq()).as("seq of event %d", i)
+                        .isEqualTo(i + 1L);
+            }
+            org.cryowarden.daemon.journal.JournalEvent gap = all.stream()
+                    .filter(e -> e.kind().equals("journal.gap")).findFirst().orElseThrow();
+            JsonNode payload = org.cryowarden.daemon.run.Payloads.JSON.readTree(gap.payloadJson());
+            org.assertj.core.api.Assertions.assertThat(payload.path("not_recorded").asLong()).isEqualTo(published);
+            org.assertj.core.api.Assertions.assertThat(payload.path("problem").asText()).contains(problem);
+            return all;
+        }
+    }
 }
