@@ -19,7 +19,7 @@ final class DashboardView {
         Map<String, JsonNode> alarms = new LinkedHashMap<>();
         for (Subscriber.Message message : new ArrayList<>(subscriber.received)) {
             if (message.topic().startsWith(prefix + "/alarm/")) {
-                alarms.put(message.topic().substring((prefix + "/alarm/").length()), json(message.text()));
+                alarms.put(message.topic().substring((prefix + "/alarm/").length()), Subscriber.json(message));
             }
         }
         return alarms;
@@ -27,21 +27,14 @@ final class DashboardView {
 
     static JsonNode state(Subscriber subscriber, String prefix, String topic) {
         List<Subscriber.Message> messages = subscriber.on(prefix + "/" + topic);
-        return messages.isEmpty() ? Payloads.object() : json(messages.get(messages.size() - 1).text());
+        return messages.isEmpty() ? Payloads.object() : Subscriber.json(messages.get(messages.size() - 1));
     }
 
     static List<String> events(Subscriber subscriber, String prefix) {
-        return subscriber.on(prefix + "/event").stream().map(m -> json(m.text()))
+        return subscriber.on(prefix + "/event").stream().map(Subscriber::json)
                 .map(e -> e.path("kind").asText() + " " + e.path("subject").asText()).toList();
     }
 
-    static JsonNode json(String text) {
-        try {
-            return Payloads.JSON.readTree(text);
-        } catch (Exception e) {
-            throw new AssertionError(e);
-        }
-    }
 
     /** Polls {@code condition} every 20 ms for at most {@code seconds}; shows the process's output on failure. */
     static void await(BooleanSupplier condition, int seconds, JarProcess process) throws Exception {
