@@ -54,9 +54,10 @@ import org.slf4j.LoggerFactory;
  *       to the head of the queue and is retried. Each publish reports a {@link PublishResult}: delivered only
  *       once the broker acknowledged it. While disconnected a publish fails at once: the journal's outbox, not
  *       a Paho buffer, keeps what must not be lost.</li>
- *   <li>Paho's callbacks only hand work to our threads (never block or publish inside {@code messageArrived}
- *       or {@code connectComplete}, #310, #985). Message handlers, connection listeners and publish results run
- *       on one callback thread of the link, in order: a handler may publish but must not block for long.</li>
+ *   <li>Paho's callbacks never block or wait for a publish (#310, #985): they run the link's short bookkeeping
+ *       in its {@link SerialLane} and hand everything else to our threads. Message handlers, connection listeners
+ *       and publish results run on one callback thread of the link, in order: a handler may publish but must not
+ *       block for long.</li>
  *   <li>Paho runs on an executor the link owns, so {@link #close} leaves no Paho thread behind.</li>
  * </ul>
  *
@@ -75,6 +76,9 @@ public final class MqttLink implements AutoCloseable {
     private final MqttLinkSettings settings;
     private final MqttAsyncClient client;
     private final MqttConnectionOptions options;
+    /** Runs every change of the state below, one at a time, on whichever thread asks for it. */
+    private final SerialLane lane;
+    /** Only schedules delayed work (reconnects, window retries) into the lane. */
     private final ScheduledThreadPoolExecutor control;
     private final ExecutorService callbacks;
     private final ScheduledThreadPoolExecutor pahoPool;
@@ -84,11 +88,13 @@ public final class MqttLink implements AutoCloseable {
     private final CompletableFuture<Void> firstConnect = new CompletableFuture<>();
     private final Object closeLock = new Object();
 
-    // State below is read and written on the control thread only.
+    // State below is read and written in the lane only.
     private final Deque<Pending> queue = new ArrayDeque<>();
     private final Set<Pending> inFlight = new LinkedHashSet<>();
     private ScheduledFuture<?> retryTask;
     private ScheduledFuture<?> windowRetryTask;
+    /** Publish results decided by the lane's current run, handed to the callback thread in one piece. */
+    private final List<Runnable> completions = new ArrayList<>();
     private int failedAttempts;
     private int epoch;
     private boolean everConnected;
@@ -105,6 +111,8 @@ public final class MqttLink implements AutoCloseable {
         final OutgoingMessage message;
         final CompletableFuture<PublishResult> result;
         int epoch;
+        /** Set once its result is decided: the future itself completes later, on the callback thread. */
+        boolean decided;
 
         Pending(OutgoingMessage message, CompletableFuture<PublishResult> result) {
             this.message = message;
@@ -120,6 +128,8 @@ public final class MqttLink implements AutoCloseable {
     public MqttLink(MqttLinkSettings settings) {
         this.settings = Objects.requireNonNull(settings, "settings");
         this.options = connectionOptions(settings);
+        this.lane = new SerialLane(e -> LOG.error("MQTT link to {}: internal failure", settings.serverUri(), e),
+                this::handCompletionsOn);
         this.control = scheduler(1, new LinkThreads(settings.clientId(), "control"));
         this.callbacks = Executors.newSingleThreadExecutor(new LinkThreads(settings.clientId(), "callbacks"));
         this.pahoPool = scheduler(PAHO_THREADS, new LinkThreads(settings.clientId(), "paho"));
@@ -144,12 +154,12 @@ public final class MqttLink implements AutoCloseable {
         if (closing) {
             throw new IllegalStateException("link to " + settings.serverUri() + " is closed");
         }
-        control.execute(() -> {
+        control.execute(() -> lane.runHere(() -> {
             if (state == State.NEW) {
                 state = State.DISCONNECTED;
                 attemptConnect();
             }
-        });
+        }));
     }
 
     /** How many publishes wait for a window slot right now (for tests and metrics). */
@@ -287,7 +297,7 @@ public final class MqttLink implements AutoCloseable {
         close(settings.willPayload(), DEFAULT_CLOSE_TIMEOUT);
     }
 
-    // ---- control thread -------------------------------------------------------------------------------------
+    // ---- in the lane ----------------------------------------------------------------------------------------
 
     private void attemptConnect() {
         retryTask = null;
@@ -391,7 +401,9 @@ public final class MqttLink implements AutoCloseable {
             return;
         }
         try {
-            retryTask = control.schedule(this::attemptConnect, delay.toMillis(), TimeUnit.MILLISECONDS);
+            // On the control thread itself: Paho refuses to connect from its own callback threads.
+            retryTask = control.schedule(() -> lane.runHere(this::attemptConnect), delay.toMillis(),
+                    TimeUnit.MILLISECONDS);
         } catch (RejectedExecutionException e) {
             retryTask = null;
         }
@@ -452,7 +464,8 @@ public final class MqttLink implements AutoCloseable {
             return;
         }
         try {
-            windowRetryTask = control.schedule(this::pump, WINDOW_RETRY.toMillis(), TimeUnit.MILLISECONDS);
+            windowRetryTask = control.schedule(() -> onControl(this::pump), WINDOW_RETRY.toMillis(),
+                    TimeUnit.MILLISECONDS);
         } catch (RejectedExecutionException e) {
             windowRetryTask = null;
         }
@@ -565,7 +578,8 @@ public final class MqttLink implements AutoCloseable {
     private boolean disconnect(long deadline) {
         CompletableFuture<Boolean> done = new CompletableFuture<>();
         long quiesce = Math.min(1000, TimeUnit.NANOSECONDS.toMillis(remainingUntil(deadline)) / 2);
-        boolean submitted = onControl(() -> {
+        // On this (the closing) thread: Paho refuses to disconnect from its own callback threads (32107).
+        boolean submitted = lane.runHere(() -> {
             if (retryTask != null) {
                 retryTask.cancel(false);
                 retryTask = null;
@@ -612,6 +626,7 @@ public final class MqttLink implements AutoCloseable {
 
     private void shutdownExecutors(Duration bound) {
         long deadline = System.nanoTime() + bound.toNanos();
+        lane.close();
         control.shutdown();
         callbacks.shutdown();
         // Paho's threads have nothing left to do once the client is closed: interrupt whatever still runs.
@@ -638,22 +653,15 @@ public final class MqttLink implements AutoCloseable {
 
     // ---- helpers --------------------------------------------------------------------------------------------
 
+    /** Runs {@code task} in the lane; false once the link has stopped. */
     private boolean onControl(Runnable task) {
-        try {
-            control.execute(() -> {
-                try {
-                    task.run();
-                } catch (RuntimeException e) {
-                    LOG.error("MQTT link to {}: internal failure", settings.serverUri(), e);
-                }
-            });
-            return true;
-        } catch (RejectedExecutionException e) {
-            return false;
-        }
+        return lane.submit(task);
     }
 
     private void onCallbacks(Runnable task) {
+        if (lane.isRunningHere()) {
+            handCompletionsOn(); // results decided before this callback are told before it
+        }
         try {
             callbacks.execute(() -> {
                 try {
@@ -668,13 +676,36 @@ public final class MqttLink implements AutoCloseable {
     }
 
     private void complete(Pending pending, PublishResult result) {
-        if (pending.result.isDone()) {
+        if (pending.decided) {
             return;
         }
+        pending.decided = true;
+        completions.add(() -> pending.result.complete(result));
+    }
+
+    /**
+     * Hands the results the lane decided to the callback thread as one task: one wake-up for a burst of
+     * acknowledgements instead of one each. Runs in the lane, so batches keep their order.
+     */
+    private void handCompletionsOn() {
+        if (completions.isEmpty()) {
+            return;
+        }
+        Runnable[] batch = completions.toArray(Runnable[]::new);
+        completions.clear();
+        Runnable tell = () -> {
+            for (Runnable completion : batch) {
+                try {
+                    completion.run();
+                } catch (RuntimeException e) {
+                    LOG.error("MQTT link to {}: a publish result handler failed", settings.serverUri(), e);
+                }
+            }
+        };
         try {
-            callbacks.execute(() -> pending.result.complete(result));
+            callbacks.execute(tell);
         } catch (RejectedExecutionException e) {
-            pending.result.complete(result);
+            tell.run();
         }
     }
 
@@ -827,7 +858,7 @@ public final class MqttLink implements AutoCloseable {
 
         @Override
         public void connectComplete(boolean reconnect, String serverUri) {
-            // Our connect listener handles this on the control thread.
+            // Our connect listener handles this in the lane.
         }
 
         @Override
