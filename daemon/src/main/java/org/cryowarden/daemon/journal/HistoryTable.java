@@ -14,8 +14,8 @@ import java.util.Optional;
 /**
  * The journal's raw history: one row per history block of a channel. It has its own connection with
  * {@code synchronous=NORMAL} (WAL stays consistent; a power loss can cost the last flushes, a {@code kill -9}
- * cannot), so the frequent block writes never wait for the record connection's full syncs, and the record
- * connection never waits for them. Thread-safe; meant for one writer thread (the history writer) plus readers.
+ * cannot), so the frequent block writes are not synced to disk one by one; the connections take turns to write
+ * ({@link WriteTurn}). Thread-safe; meant for one writer thread (the history writer) plus readers.
  */
 public final class HistoryTable {
 
@@ -31,11 +31,13 @@ public final class HistoryTable {
     private final JournalFiles files;
     private final Connection connection;
     private final Object lock = new Object();
+    private final WriteTurn turn;
 
-    HistoryTable(Path file, Connection connection) {
+    HistoryTable(Path file, Connection connection, WriteTurn turn) {
         this.file = file;
         this.files = new JournalFiles(file);
         this.connection = connection;
+        this.turn = turn;
     }
 
     /**
@@ -45,7 +47,7 @@ public final class HistoryTable {
     public List<Long> write(List<BlockRow> rows, Instant now) throws JournalException {
         synchronized (lock) {
             try {
-                return Journal.inTransaction(files, connection, () -> {
+                return Journal.inTransaction(files, turn, connection, () -> {
                     List<Long> ids = new ArrayList<>(rows.size());
                     try (PreparedStatement insert = connection.prepareStatement("""
                             INSERT INTO history_block (channel, first_ns, last_ns, count, sealed, data, written_ms)
@@ -92,7 +94,7 @@ public final class HistoryTable {
     public int pruneBefore(Instant cutoff) throws JournalException {
         synchronized (lock) {
             try {
-                return Journal.inTransaction(files, connection, () -> {
+                return Journal.inTransaction(files, turn, connection, () -> {
                     try (PreparedStatement delete = connection.prepareStatement(
                             "DELETE FROM history_block WHERE last_ns < ?")) {
                         delete.setLong(1, nanos(cutoff));
@@ -124,7 +126,7 @@ public final class HistoryTable {
     public int sealAll() throws JournalException {
         synchronized (lock) {
             try {
-                return Journal.inTransaction(files, connection, () -> {
+                return Journal.inTransaction(files, turn, connection, () -> {
                     try (Statement statement = connection.createStatement()) {
                         return statement.executeUpdate("UPDATE history_block SET sealed = 1 WHERE sealed = 0");
                     }

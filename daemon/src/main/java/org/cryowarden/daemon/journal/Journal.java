@@ -28,12 +28,14 @@ import org.sqlite.SQLiteConfig;
  * minute aggregates for reports. It survives {@code kill -9}: every write is one transaction, committed before
  * the caller publishes anything.
  *
- * <p>Two connections to one file in WAL mode. The <em>record</em> connection writes events, alarm states and
+ * <p>Three connections to one file in WAL mode. The <em>record</em> connection writes events, alarm states and
  * the outbox with {@code synchronous=FULL}, so a committed alarm, acknowledgement or trip survives a power
  * loss; the <em>aggregate</em> connection writes minute aggregates with {@code synchronous=NORMAL} (WAL stays
- * consistent, the last minutes may be lost on power loss). Pragmas are set through the driver's connection
+ * consistent, the last minutes may be lost on power loss), the <em>history</em> one raw history blocks
+ * likewise ({@link HistoryTable}). Pragmas are set through the driver's connection
  * properties, write transactions start with {@code BEGIN IMMEDIATE} so they never fail half-way on a lock
- * upgrade, and a busy timeout covers the other connection's short writes.
+ * upgrade, and the connections take turns to write ({@link WriteTurn}) rather than sleep in SQLite's busy
+ * handler; the busy timeout covers other processes.
  *
  * <p>Thread-safe: each connection is used by one thread at a time. Open with {@link #open}, close once.
  */
@@ -46,6 +48,8 @@ public final class Journal implements AutoCloseable {
 
     private final Path file;
     private final JournalFiles files;
+    /** Shared with the history table: the three connections take turns to write. */
+    private final WriteTurn turn = new WriteTurn();
     private final JournalSettings settings;
     private final Connection records;
     private final Connection aggregatesConnection;
@@ -68,7 +72,7 @@ public final class Journal implements AutoCloseable {
         this.settings = settings;
         this.records = records;
         this.aggregatesConnection = aggregates;
-        this.history = new HistoryTable(file, history);
+        this.history = new HistoryTable(file, history, turn);
     }
 
     /**
@@ -141,7 +145,7 @@ public final class Journal implements AutoCloseable {
             ensureOpen(what);
             long start = System.nanoTime();
             try {
-                T result = inTransaction(files, records, () -> work.apply(new JournalTransaction(records)));
+                T result = inTransaction(files, turn, records, () -> work.apply(new JournalTransaction(records)));
                 lastCommitNanos = System.nanoTime() - start;
                 return result;
             } catch (SQLException e) {
@@ -336,7 +340,7 @@ public final class Journal implements AutoCloseable {
         long cutoff = now.minus(settings.aggregateRetention()).toEpochMilli();
         synchronized (aggregateLock) {
             try {
-                int deleted = inTransaction(files, aggregatesConnection, () -> {
+                int deleted = inTransaction(files, turn, aggregatesConnection, () -> {
                     try (PreparedStatement delete = aggregatesConnection.prepareStatement(
                             "DELETE FROM minute_aggregate WHERE minute_ms < ?")) {
                         delete.setLong(1, cutoff);
@@ -484,7 +488,7 @@ public final class Journal implements AutoCloseable {
             return;
         }
         try {
-            inTransaction(files, aggregatesConnection, () -> {
+            inTransaction(files, turn, aggregatesConnection, () -> {
                 try (PreparedStatement upsert = aggregatesConnection.prepareStatement("""
                         INSERT INTO minute_aggregate
                             (channel, minute_ms, good_count, total_count, min_value, max_value, sum_value)
@@ -519,20 +523,26 @@ public final class Journal implements AutoCloseable {
      * Runs {@code work} between {@code BEGIN IMMEDIATE} and {@code COMMIT}, rolled back on failure; refused before
      * SQLite is asked when the journal's files cannot be written (see {@link JournalFiles}).
      */
-    static <T> T inTransaction(JournalFiles files, Connection connection, SqlWork<T> work) throws SQLException {
+    static <T> T inTransaction(JournalFiles files, WriteTurn turn, Connection connection, SqlWork<T> work)
+            throws SQLException {
         files.checkWritable();
-        try (Statement statement = connection.createStatement()) {
-            statement.execute("BEGIN IMMEDIATE");
-        }
+        turn.take();
         try {
-            T result = work.run();
             try (Statement statement = connection.createStatement()) {
-                statement.execute("COMMIT");
+                statement.execute("BEGIN IMMEDIATE");
             }
-            return result;
-        } catch (SQLException | RuntimeException e) {
-            rollbackQuietly(connection);
-            throw e;
+            try {
+                T result = work.run();
+                try (Statement statement = connection.createStatement()) {
+                    statement.execute("COMMIT");
+                }
+                return result;
+            } catch (SQLException | RuntimeException e) {
+                rollbackQuietly(connection);
+                throw e;
+            }
+        } finally {
+            turn.give();
         }
     }
 
@@ -637,7 +647,7 @@ public final class Journal implements AutoCloseable {
             if (migration.version() <= from) {
                 continue;
             }
-            inTransaction(files, connection, () -> {
+            inTransaction(files, new WriteTurn(), connection, () -> {
                 try (Statement statement = connection.createStatement()) {
                     for (String sql : migration.statements()) {
                         statement.execute(sql);
