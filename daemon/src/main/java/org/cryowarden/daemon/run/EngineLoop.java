@@ -3,7 +3,6 @@ package org.cryowarden.daemon.run;
 import com.fasterxml.jackson.databind.node.ObjectNode;
 import java.time.Duration;
 import java.util.ArrayList;
-import java.util.HashSet;
 import java.util.LinkedHashMap;
 import java.util.LinkedHashSet;
 import java.util.List;
@@ -305,6 +304,7 @@ final class EngineLoop implements AutoCloseable {
             }
             if (!events.isEmpty()) {
                 PathStage.mark(PathStage.EVALUATED, reading.channel(), 0);
+                dispatch(events); // alarms and trips before the reading's own sinks
             }
             processed.incrementAndGet();
             sinks.taken(reading, time.wallNow());
@@ -313,7 +313,6 @@ final class EngineLoop implements AutoCloseable {
             for (String derived : derivedOf.getOrDefault(reading.channel(), List.of())) {
                 engine.latest(derived).ifPresent(sinks::reading);
             }
-            dispatch(events);
         }
     }
 
@@ -351,8 +350,8 @@ final class EngineLoop implements AutoCloseable {
         }
         List<DaemonEvent> mapped = new ArrayList<>(events.size());
         Set<String> alarms = new LinkedHashSet<>();
-        Set<String> interlocks = new HashSet<>();
-        Set<String> fills = new HashSet<>();
+        Set<String> interlocks = new LinkedHashSet<>();
+        Set<String> fills = new LinkedHashSet<>();
         for (EngineEvent event : events) {
             mapped.add(EventMapping.of(event));
             if (event instanceof AlarmTransition t) {
@@ -375,24 +374,22 @@ final class EngineLoop implements AutoCloseable {
                 sinks.output(command);
             }
         }
+        // Only what changed, looked up one by one: a whole snapshot per event costs the alarm's way out a walk
+        // over every alarm of the site.
         Map<String, String> states = new LinkedHashMap<>();
         Map<String, ObjectNode> documents = new LinkedHashMap<>();
-        EngineSnapshot snapshot = engine.snapshot();
-        for (EngineSnapshot.AlarmRecord record : snapshot.alarms()) {
-            if (alarms.contains(record.id())) {
-                states.put(record.id(), SnapshotJson.alarm(record));
-                engine.alarm(record.id()).ifPresent(s -> documents.put(s.id(), Payloads.alarm(s, Optional.of(record))));
-            }
+        for (String id : alarms) {
+            engine.alarmRecord(id).ifPresent(record -> {
+                states.put(id, SnapshotJson.alarm(record));
+                engine.alarm(id).ifPresent(s -> documents.put(s.id(), Payloads.alarm(s, Optional.of(record))));
+            });
         }
-        for (EngineSnapshot.InterlockRecord record : snapshot.interlocks()) {
-            if (interlocks.contains(record.id())) {
-                states.put(SnapshotJson.INTERLOCK_KEY + record.id(), SnapshotJson.interlock(record));
-            }
+        for (String id : interlocks) {
+            engine.interlockRecord(id).ifPresent(
+                    record -> states.put(SnapshotJson.INTERLOCK_KEY + id, SnapshotJson.interlock(record)));
         }
-        for (EngineSnapshot.FillRecord record : snapshot.fills()) {
-            if (fills.contains(record.id())) {
-                states.put(SnapshotJson.FILL_KEY + record.id(), SnapshotJson.fill(record));
-            }
+        for (String id : fills) {
+            engine.fillRecord(id).ifPresent(record -> states.put(SnapshotJson.FILL_KEY + id, SnapshotJson.fill(record)));
         }
         EventBatch batch = new EventBatch(mapped, states, documents, summary());
         PathStage.mark(PathStage.QUEUED, mapped.get(0).subject().orElse(""), 0);

@@ -276,7 +276,6 @@ final class JournalSink implements AutoCloseable {
                         seqs.get(b).add(OptionalLong.of(numbered.get(i)));
                         PathStage.mark(PathStage.COMMITTED, batches.get(b).events().get(i).subject().orElse(""),
                                 numbered.get(i));
-                        EVENTS.info(batches.get(b).events().get(i).logLine(numbered.get(i)));
                     }
                 }
             } catch (JournalException e) {
@@ -306,6 +305,15 @@ final class JournalSink implements AutoCloseable {
                     listener.committed(committed);
                 } catch (RuntimeException e) {
                     LOG.error("journal listener failed", e);
+                }
+            }
+        }
+        // The event log lines after the listeners: a console write is no reason to hold an alarm back.
+        if (problem.isEmpty()) {
+            for (int b = 0; b < batches.size(); b++) {
+                List<DaemonEvent> recorded = batches.get(b).events();
+                for (int i = 0; i < recorded.size(); i++) {
+                    EVENTS.info(recorded.get(i).logLine(seqs.get(b).get(i).getAsLong()));
                 }
             }
         }

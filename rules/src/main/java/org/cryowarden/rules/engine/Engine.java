@@ -186,6 +186,21 @@ public final class Engine {
         return Optional.ofNullable(core.channels.get(channelId)).map(channel -> channel.latest);
     }
 
+    /** One alarm's part of {@link #snapshot()}: what a journal keeps of it after it changed. */
+    public Optional<EngineSnapshot.AlarmRecord> alarmRecord(String alarmId) {
+        return Optional.ofNullable(core.alarms.get(alarmId)).map(AlarmRuntime::record);
+    }
+
+    /** One interlock's part of {@link #snapshot()}. */
+    public Optional<EngineSnapshot.InterlockRecord> interlockRecord(String interlockId) {
+        return Optional.ofNullable(core.interlocks.get(interlockId)).map(InterlockRuntime::record);
+    }
+
+    /** One fill controller's part of {@link #snapshot()}. */
+    public Optional<EngineSnapshot.FillRecord> fillRecord(String fillId) {
+        return Optional.ofNullable(core.fills.get(fillId)).map(FillController::record);
+    }
+
     /**
      * What must survive a restart: every alarm's lifecycle facts, every interlock's trip and bypass, every fill's
      * lockout. An alarm flood in progress is not kept: after a restart the count starts afresh.
