@@ -101,6 +101,36 @@ class StaleRuleTest {
         assertThat(seen.reason()).isEqualTo("reading in K cannot be converted to the channel's unit %vol");
     }
 
+    /**
+     * Stale timeouts re-arm themselves while readings keep coming (after a minute of readings every second they
+     * wait in the timer queue's ring, not its heap). Two channels read at the same instants and then silent
+     * together: both turn stale exactly their timeout after their last reading, not a tick earlier, and the faults
+     * come in the same order as they always did for timers due at the same time.
+     */
+    @Test
+    void channelsReadForMinutesTurnStaleExactlyTheirTimeoutAfterTheLastReadingInAFixedOrder() {
+        Site site = new Site().channel("o2_a", Unit.PERCENT_VOLUME).channel("o2_b", Unit.PERCENT_VOLUME)
+                .rule(new StaleRule("o2_b_fault", "o2_b", Optional.empty(), alarm(Priority.HIGH, "Oxygen sensor B fault"),
+                        at("o2_b_fault")))
+                .rule(new StaleRule("o2_a_fault", "o2_a", Optional.empty(), alarm(Priority.HIGH, "Oxygen sensor A fault"),
+                        at("o2_a_fault")));
+        for (int second = 0; second < 120; second++) {
+            assertThat(site.read("o2_a", 20.9, Unit.PERCENT_VOLUME)).isEmpty();
+            assertThat(site.read("o2_b", 20.8, Unit.PERCENT_VOLUME)).isEmpty();
+            assertThat(site.advance(Duration.ofMillis(250))).isEmpty();
+            assertThat(site.advance(Duration.ofMillis(750))).isEmpty();
+        }
+        // The last readings were at 18:01:59; silence since.
+        for (int tenth = 1; tenth < 40; tenth++) {
+            assertThat(site.advance(Duration.ofMillis(100))).as("%d ms after the last readings", 1_000 + 100 * tenth)
+                    .isEmpty();
+        }
+
+        assertThat(site.advance(Duration.ofMillis(100))).containsExactly(
+                "18:02:04 o2_a_fault normal -> active-unacknowledged: o2_a STALE (no reading for 5s, polled every 1s)",
+                "18:02:04 o2_b_fault normal -> active-unacknowledged: o2_b STALE (no reading for 5s, polled every 1s)");
+    }
+
     private static Site oxygenSite(Optional<Duration> timeout) {
         return new Site().channel("o2_a", Unit.PERCENT_VOLUME)
                 .rule(new StaleRule("o2_a_fault", "o2_a", timeout, alarm(Priority.HIGH, "Oxygen sensor A fault"),
