@@ -102,10 +102,10 @@ class StaleRuleTest {
     }
 
     /**
-     * Stale timeouts re-arm themselves while readings keep coming (after a minute of readings every second they
-     * wait in the timer queue's ring, not its heap). Two channels read at the same instants and then silent
-     * together: both turn stale exactly their timeout after their last reading, not a tick earlier, and the faults
-     * come in the same order as they always did for timers due at the same time.
+     * Stale timeouts re-arm themselves in place while readings keep coming (they fire early and move on). Two
+     * channels read at the same instants and then silent together: both turn stale exactly their timeout after
+     * their last reading, not a tick earlier, and the faults come in the same order as they always did for timers
+     * due at the same time.
      */
     @Test
     void channelsReadForMinutesTurnStaleExactlyTheirTimeoutAfterTheLastReadingInAFixedOrder() {
