@@ -39,8 +39,6 @@ import org.slf4j.LoggerFactory;
 public final class BusPoller implements AutoCloseable {
 
     private static final Logger LOG = LoggerFactory.getLogger(BusPoller.class);
-    /** The least time between two phases of a bus's polling ({@link #spreadOverThePeriod}). */
-    static final Duration PHASE_GAP = Duration.ofMillis(20);
 
     private final String busId;
     private final Transport transport;
@@ -196,7 +194,6 @@ public final class BusPoller implements AutoCloseable {
     }
 
     private void loop() {
-        spreadOverThePeriod(time.monotonicNanos());
         while (running) {
             long next;
             try {
@@ -217,40 +214,6 @@ public final class BusPoller implements AutoCloseable {
                 return;
             } finally {
                 wakeLock.unlock();
-            }
-        }
-    }
-
-    /**
-     * Spreads the bus's instruments over their polling period, in up to one phase per {@link #PHASE_GAP} of the
-     * shortest period on the bus, instrument after instrument; the first phase starts at once. Why: with every
-     * instrument due at the same instant, a round of 50 Modbus TCP transactions arrives as one burst each
-     * second, and an alarm's reading in it waited some 10 ms behind the others for the two cores (the 200-channel
-     * alarm latency dropped from about 15 ms to 3 ms at the median when spread). An instrument's channels keep one
-     * phase, so a multi-register read stays one transaction. Only on the poller's own thread, in real time: a
-     * driven poller (tests, simulated nights) runs when its driver steps the clock, and a step cannot resolve
-     * phases within it.
-     */
-    private void spreadOverThePeriod(long now) {
-        long shortest = Long.MAX_VALUE;
-        for (Slot slot : slots) {
-            shortest = Math.min(shortest, slot.period);
-        }
-        int count = instruments.size();
-        if (count < 2 || shortest == Long.MAX_VALUE) {
-            return;
-        }
-        int phases = (int) Math.max(1, Math.min(count, shortest / PHASE_GAP.toNanos()));
-        if (phases < 2) {
-            return;
-        }
-        for (int i = 0; i < count; i++) {
-            PolledInstrument instrument = instruments.get(i);
-            int phase = (int) ((long) i * phases / count);
-            for (Slot slot : slots) {
-                if (slot.instrument == instrument && slot.nextDue - now <= 0) {
-                    slot.nextDue = now + slot.period * phase / phases;
-                }
             }
         }
     }
