@@ -10,8 +10,6 @@ import java.time.Instant;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Optional;
-import org.slf4j.Logger;
-import org.slf4j.LoggerFactory;
 
 /**
  * The journal's raw history: one row per history block of a channel. It has its own connection with
@@ -20,8 +18,6 @@ import org.slf4j.LoggerFactory;
  * ({@link WriteTurn}). Thread-safe; meant for one writer thread (the history writer) plus readers.
  */
 public final class HistoryTable {
-
-    private static final Logger LOG = LoggerFactory.getLogger(HistoryTable.class);
 
     /** What the previous run left open: blocks that were never sealed because the daemon did not stop cleanly. */
     public record Unsealed(int blocks, int channels, Instant lastFlushed) {
@@ -51,7 +47,7 @@ public final class HistoryTable {
     public List<Long> write(List<BlockRow> rows, Instant now) throws JournalException {
         synchronized (lock) {
             try {
-                List<Long> written = Journal.inTransaction(files, turn, connection, () -> {
+                return Journal.inTransaction(files, turn, connection, () -> {
                     List<Long> ids = new ArrayList<>(rows.size());
                     try (PreparedStatement insert = connection.prepareStatement("""
                             INSERT INTO history_block (channel, first_ns, last_ns, count, sealed, data, written_ms)
@@ -86,41 +82,11 @@ public final class HistoryTable {
                     }
                     return ids;
                 });
-                checkpoint();
-                return written;
             } catch (SQLException e) {
                 throw new JournalException("journal " + file + ": could not record " + rows.size()
                         + " history blocks: " + SqliteProblems.explain(e, file) + "; those readings are not in the history",
                         e);
             }
-        }
-    }
-
-    /**
-     * The history connection writes the most: every open block at every flush, hundreds of kilobytes into the
-     * write-ahead log that all three connections share. Left in the page cache, those pages were written out by
-     * the next alarm's commit, whose sync to disk flushes the whole log file (tens of milliseconds on the alarm's
-     * way out); and its commits were the ones to cross SQLite's automatic checkpoint threshold, copying megabytes
-     * back while holding the write turn. It checkpoints itself instead, right after each write and outside the
-     * turn: a passive checkpoint syncs the log first and waits for no reader or writer, so an alarm's commit goes
-     * on meanwhile. The other connections keep the automatic checkpoint, which the short log rarely lets them
-     * reach.
-     */
-    static void leaveCheckpointsToItself(Connection history) throws SQLException {
-        try (Statement statement = history.createStatement()) {
-            statement.execute("PRAGMA wal_autocheckpoint = 0");
-        }
-    }
-
-    /** A passive checkpoint; one that cannot finish (a reader is behind) is tried again after the next write. */
-    private void checkpoint() {
-        try {
-            files.checkWritable();
-            try (Statement statement = connection.createStatement()) {
-                statement.execute("PRAGMA wal_checkpoint(PASSIVE)");
-            }
-        } catch (SQLException e) {
-            LOG.debug("journal {}: passive checkpoint after a history write: {}", file, e.getMessage());
         }
     }
 

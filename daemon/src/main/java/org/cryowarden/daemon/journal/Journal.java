@@ -100,7 +100,6 @@ public final class Journal implements AutoCloseable {
             migrate(new JournalFiles(path), records, version);
             aggregates = connect(path, settings, SQLiteConfig.SynchronousMode.NORMAL);
             history = connect(path, settings, SQLiteConfig.SynchronousMode.NORMAL);
-            HistoryTable.leaveCheckpointsToItself(history);
             return new Journal(path, settings, records, aggregates, history);
         } catch (SQLException e) {
             closeQuietly(records);
