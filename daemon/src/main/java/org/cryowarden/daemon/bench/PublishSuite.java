@@ -25,7 +25,8 @@ import org.eclipse.paho.mqttv5.client.MqttAsyncClient;
 /**
  * Readings published per second through the daemon's MQTT link (QoS 0, retained, the reading document the
  * daemon publishes, 200 channel topics) against a bare Paho loop with the same QoS, retain flag, payload and
- * in-flight window. The two loops run alternately, twice each, each loop once first. The retained topics are cleared at the end.
+ * in-flight window. The two loops run alternately, twice each, each loop once first. The retained topics are
+ * cleared at the end.
  */
 final class PublishSuite {
 

@@ -200,7 +200,7 @@ public final class MqttLink implements AutoCloseable {
             return result;
         }
         Pending pending = new Pending(message, result);
-        if (!onControl(() -> enqueue(pending, false))) {
+        if (!inLane(() -> enqueue(pending, false))) {
             queuedCount.decrementAndGet();
             result.complete(new PublishResult.Failed("the MQTT link is closed"));
         }
@@ -221,7 +221,7 @@ public final class MqttLink implements AutoCloseable {
         Subscription subscription = new Subscription(filter, qos, Objects.requireNonNull(handler, "handler"),
                 new CompletableFuture<>());
         subscriptions.add(subscription);
-        if (!onControl(() -> {
+        if (!inLane(() -> {
             if (state == State.CONNECTED) {
                 sendSubscriptions(List.of(subscription));
             }
@@ -272,7 +272,7 @@ public final class MqttLink implements AutoCloseable {
             awaitQuietly(attemptSettled, Math.min(remainingUntil(deadline) / 3, TimeUnit.SECONDS.toNanos(3)));
             PublishResult offline = publishOffline(offlinePayload, remainingUntil(deadline) * 2 / 3);
             boolean disconnected = disconnect(deadline);
-            onControl(() -> {
+            inLane(() -> {
                 state = State.CLOSED;
                 failEverything("the MQTT link was closed");
             });
@@ -310,12 +310,12 @@ public final class MqttLink implements AutoCloseable {
             client.connect(options, null, new MqttActionListener() {
                 @Override
                 public void onSuccess(IMqttToken token) {
-                    onControl(MqttLink.this::connected);
+                    inLane(MqttLink.this::connected);
                 }
 
                 @Override
                 public void onFailure(IMqttToken token, Throwable failure) {
-                    onControl(() -> connectFailed(failure));
+                    inLane(() -> connectFailed(failure));
                 }
             });
         } catch (MqttException | RuntimeException e) {
@@ -464,7 +464,7 @@ public final class MqttLink implements AutoCloseable {
             return;
         }
         try {
-            windowRetryTask = control.schedule(() -> onControl(this::pump), WINDOW_RETRY.toMillis(),
+            windowRetryTask = control.schedule(() -> inLane(this::pump), WINDOW_RETRY.toMillis(),
                     TimeUnit.MILLISECONDS);
         } catch (RejectedExecutionException e) {
             windowRetryTask = null;
@@ -551,7 +551,7 @@ public final class MqttLink implements AutoCloseable {
     private PublishResult publishOffline(byte[] payload, long timeoutNanos) {
         CompletableFuture<PublishResult> result = new CompletableFuture<>();
         Pending offline = new Pending(OutgoingMessage.atLeastOnce(settings.statusTopic(), payload, true), result);
-        boolean submitted = onControl(() -> {
+        boolean submitted = inLane(() -> {
             if (retryTask != null) {
                 retryTask.cancel(false);
                 retryTask = null;
@@ -654,7 +654,7 @@ public final class MqttLink implements AutoCloseable {
     // ---- helpers --------------------------------------------------------------------------------------------
 
     /** Runs {@code task} in the lane; false once the link has stopped. */
-    private boolean onControl(Runnable task) {
+    private boolean inLane(Runnable task) {
         return lane.submit(task);
     }
 
@@ -820,13 +820,13 @@ public final class MqttLink implements AutoCloseable {
         @Override
         public void onSuccess(IMqttToken token) {
             Pending pending = (Pending) token.getUserContext();
-            onControl(() -> acknowledged(pending, token, null));
+            inLane(() -> acknowledged(pending, token, null));
         }
 
         @Override
         public void onFailure(IMqttToken token, Throwable failure) {
             Pending pending = (Pending) token.getUserContext();
-            onControl(() -> acknowledged(pending, token, failure));
+            inLane(() -> acknowledged(pending, token, failure));
         }
     }
 
@@ -837,7 +837,7 @@ public final class MqttLink implements AutoCloseable {
             String reason = response.getException() != null ? describe(response.getException())
                     : response.getReasonString() != null ? response.getReasonString()
                     : "disconnected by the broker (reason code " + response.getReturnCode() + ")";
-            onControl(() -> connectionLost(reason));
+            inLane(() -> connectionLost(reason));
         }
 
         @Override

@@ -83,10 +83,6 @@ final class SerialLane {
         closed = true;
     }
 
-    boolean isClosed() {
-        return closed;
-    }
-
     private void drain() {
         if (running.isHeldByCurrentThread()) {
             return; // submitted from inside a task: the loop below runs it next

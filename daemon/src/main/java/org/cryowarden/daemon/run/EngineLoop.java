@@ -389,7 +389,8 @@ final class EngineLoop implements AutoCloseable {
                     record -> states.put(SnapshotJson.INTERLOCK_KEY + id, SnapshotJson.interlock(record)));
         }
         for (String id : fills) {
-            engine.fillRecord(id).ifPresent(record -> states.put(SnapshotJson.FILL_KEY + id, SnapshotJson.fill(record)));
+            engine.fillRecord(id).ifPresent(
+                    record -> states.put(SnapshotJson.FILL_KEY + id, SnapshotJson.fill(record)));
         }
         EventBatch batch = new EventBatch(mapped, states, documents, summary());
         PathStage.mark(PathStage.QUEUED, mapped.get(0).subject().orElse(""), 0);

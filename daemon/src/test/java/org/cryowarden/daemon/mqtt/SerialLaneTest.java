@@ -30,17 +30,10 @@ class SerialLaneTest {
 
     @Test
     void aBusyLaneLeavesTheTaskToTheThreadRunningItAndReturnsAtOnce() throws Exception {
-        CountDownLatch inside = new CountDownLatch(1);
         CountDownLatch letGo = new CountDownLatch(1);
         List<String> order = Collections.synchronizedList(new ArrayList<>());
         AtomicReference<Thread> secondRanOn = new AtomicReference<>();
-        Thread holder = new Thread(() -> lane.submit(() -> {
-            inside.countDown();
-            await(letGo);
-            order.add("first");
-        }), "holder");
-        holder.start();
-        assertThat(inside.await(10, TimeUnit.SECONDS)).isTrue();
+        Thread holder = holdTheLane(letGo, order, "first");
 
         lane.submit(() -> {
             order.add("second");
@@ -111,16 +104,9 @@ class SerialLaneTest {
 
     @Test
     void runHereWaitsForTheLaneThenRunsOnTheCallingThreadAfterWhatWasSubmittedBefore() throws Exception {
-        CountDownLatch inside = new CountDownLatch(1);
         CountDownLatch letGo = new CountDownLatch(1);
         List<String> order = Collections.synchronizedList(new ArrayList<>());
-        Thread holder = new Thread(() -> lane.submit(() -> {
-            inside.countDown();
-            await(letGo);
-            order.add("holder");
-        }), "holder");
-        holder.start();
-        assertThat(inside.await(10, TimeUnit.SECONDS)).isTrue();
+        Thread holder = holdTheLane(letGo, order, "holder");
         lane.submit(() -> order.add("queued before"));
         AtomicReference<Thread> ranOn = new AtomicReference<>();
         Thread caller = new Thread(() -> lane.runHere(() -> {
@@ -167,6 +153,22 @@ class SerialLaneTest {
         assertThat(lane.submit(() -> { })).isFalse();
         assertThat(lane.runHere(() -> { })).isFalse();
         assertThat(releases.get()).isZero();
+    }
+
+    /**
+     * Starts a thread whose task holds the lane until {@code letGo} opens, then adds {@code entry} to
+     * {@code order}; returns once that task runs.
+     */
+    private Thread holdTheLane(CountDownLatch letGo, List<String> order, String entry) throws InterruptedException {
+        CountDownLatch inside = new CountDownLatch(1);
+        Thread holder = new Thread(() -> lane.submit(() -> {
+            inside.countDown();
+            await(letGo);
+            order.add(entry);
+        }), "holder");
+        holder.start();
+        assertThat(inside.await(10, TimeUnit.SECONDS)).isTrue();
+        return holder;
     }
 
     private static void await(CountDownLatch latch) {
