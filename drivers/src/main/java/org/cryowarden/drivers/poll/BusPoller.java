@@ -39,10 +39,12 @@ import org.slf4j.LoggerFactory;
 public final class BusPoller implements AutoCloseable {
 
     private static final Logger LOG = LoggerFactory.getLogger(BusPoller.class);
+    /** The least time between two phases of a bus's polling ({@link #spreadOverThePeriod}). */
+    static final Duration PHASE_GAP = Duration.ofMillis(20);
 
     private final String busId;
     private final Transport transport;
-    private final List<Slot> slots = new ArrayList<>();
+    private final List<Polled> polled = new ArrayList<>();
     private final List<PolledInstrument> instruments;
     private final TimeSource time;
     private final ReadingSink sink;
@@ -71,9 +73,7 @@ public final class BusPoller implements AutoCloseable {
         this.backoff = Objects.requireNonNull(backoff, "backoff");
         long now = time.monotonicNanos();
         for (PolledInstrument instrument : this.instruments) {
-            for (ChannelDef channel : instrument.channels()) {
-                slots.add(new Slot(instrument, channel, now));
-            }
+            polled.add(new Polled(instrument, now));
         }
         this.nextReopenAt = now;
         this.lastRoundNanos = now;
@@ -95,27 +95,54 @@ public final class BusPoller implements AutoCloseable {
             tryReopen(now);
         }
         runWrites(now);
-        for (PolledInstrument instrument : instruments) {
-            List<Slot> due = new ArrayList<>();
-            for (Slot slot : slots) {
-                if (slot.instrument == instrument && now - slot.nextDue >= 0) {
-                    due.add(slot);
-                    slot.advance(now);
-                }
-            }
-            if (!due.isEmpty()) {
-                poll(instrument, due, now);
-            }
-        }
         long next = Long.MAX_VALUE;
-        for (Slot slot : slots) {
-            next = earlier(next, slot.nextDue);
+        for (Polled instrument : polled) {
+            if (instrument.slots.length == 0) {
+                continue; // outputs only: written, never polled
+            }
+            if (now - instrument.nextDue >= 0) {
+                poll(instrument.instrument, instrument.takeDue(now), now);
+            }
+            next = earlier(next, instrument.nextDue);
         }
         if (!transportUp) {
             next = earlier(next, nextReopenAt);
         }
         lastRoundNanos = now;
         return next == Long.MAX_VALUE ? now + Duration.ofSeconds(1).toNanos() : next;
+    }
+
+    /**
+     * Spreads the bus's instruments evenly over the shortest polling period on the bus, in phases at least
+     * {@link #PHASE_GAP} apart, instrument after instrument; the first phase is due at {@code now}. Why: with every
+     * instrument due at the same instant, a bus of 50 instruments answers in one burst each period, and an alarm's
+     * reading in it waits behind the others, and behind the other buses' bursts, for the machine's cores. An
+     * instrument's channels keep one phase, so a multi-register read stays one transaction. Called by the poller's
+     * own thread, in real time; a driven poller (tests, simulated nights) is stepped by its driver, whose steps
+     * are coarser than the phases, and polls its instruments together.
+     */
+    void spreadOverThePeriod(long now) {
+        List<Polled> read = new ArrayList<>();
+        long shortest = Long.MAX_VALUE;
+        for (Polled instrument : polled) {
+            for (Slot slot : instrument.slots) {
+                shortest = Math.min(shortest, slot.period);
+            }
+            if (instrument.slots.length > 0) {
+                read.add(instrument);
+            }
+        }
+        int count = read.size();
+        if (count < 2) {
+            return;
+        }
+        int phases = (int) Math.min(count, shortest / PHASE_GAP.toNanos());
+        if (phases < 2) {
+            return;
+        }
+        for (int i = 0; i < count; i++) {
+            read.get(i).startAt(now + shortest * ((long) i * phases / count) / phases);
+        }
     }
 
     /**
@@ -194,6 +221,7 @@ public final class BusPoller implements AutoCloseable {
     }
 
     private void loop() {
+        spreadOverThePeriod(time.monotonicNanos());
         while (running) {
             long next;
             try {
@@ -356,14 +384,52 @@ public final class BusPoller implements AutoCloseable {
         return a == Long.MAX_VALUE ? b : (b - a < 0 ? b : a);
     }
 
-    private static final class Slot {
+    /** An instrument with its channels' schedule; {@code nextDue} is the earliest of its slots. */
+    private static final class Polled {
         final PolledInstrument instrument;
+        final Slot[] slots;
+        long nextDue;
+
+        Polled(PolledInstrument instrument, long start) {
+            this.instrument = instrument;
+            this.slots = new Slot[instrument.channels().size()];
+            for (int i = 0; i < slots.length; i++) {
+                slots[i] = new Slot(instrument.channels().get(i), start);
+            }
+            this.nextDue = start;
+        }
+
+        /** The slots due at {@code now} (called when {@code nextDue} has come), each moved on by its period. */
+        List<Slot> takeDue(long now) {
+            List<Slot> due = new ArrayList<>(slots.length);
+            for (Slot slot : slots) {
+                if (now - slot.nextDue >= 0) {
+                    due.add(slot);
+                    slot.advance(now);
+                }
+            }
+            long next = slots[0].nextDue;
+            for (Slot slot : slots) {
+                next = earlier(next, slot.nextDue);
+            }
+            nextDue = next;
+            return due;
+        }
+
+        void startAt(long start) {
+            for (Slot slot : slots) {
+                slot.nextDue = start;
+            }
+            nextDue = start;
+        }
+    }
+
+    private static final class Slot {
         final ChannelDef channel;
         final long period;
         long nextDue;
 
-        Slot(PolledInstrument instrument, ChannelDef channel, long start) {
-            this.instrument = instrument;
+        Slot(ChannelDef channel, long start) {
             this.channel = channel;
             this.period = channel.period().toNanos();
             this.nextDue = start;

@@ -195,6 +195,80 @@ class BusPollerTest {
         assertThat(readings.get(1).reason()).isEqualTo("bus 'b' down: read error 5");
     }
 
+    @Test
+    void realTimePollingSpreadsTheInstrumentsOverTheirPeriod() {
+        List<PolledInstrument> meters = new ArrayList<>();
+        for (int i = 0; i < 4; i++) {
+            meters.add(counting("meter-" + i, Duration.ofSeconds(1)));
+        }
+        BusPoller poller = new BusPoller("hall-b", transport, meters, time, readings::add, Backoff.DEFAULT);
+
+        poller.spreadOverThePeriod(time.monotonicNanos());
+        List<Long> firstPolls = firstPollMillis(poller, 4, Duration.ofSeconds(2));
+
+        // four instruments on a 1 s period: one every 250 ms, the first at once (the phases divide the period evenly)
+        assertThat(firstPolls).containsExactly(0L, 250L, 500L, 750L);
+        assertThat(readings.stream().filter(r -> r.channel().equals("meter-0")).count()).isEqualTo(2);
+    }
+
+    @Test
+    void phasesStayAtLeastTwentyMillisecondsApartWithManyInstruments() {
+        List<PolledInstrument> meters = new ArrayList<>();
+        for (int i = 0; i < 100; i++) {
+            meters.add(counting("meter-" + i, Duration.ofSeconds(1)));
+        }
+        BusPoller poller = new BusPoller("hall-b", transport, meters, time, readings::add, Backoff.DEFAULT);
+
+        poller.spreadOverThePeriod(time.monotonicNanos());
+        List<Long> firstPolls = firstPollMillis(poller, 100, Duration.ofSeconds(2));
+
+        // 1 s / 20 ms = 50 phases for 100 instruments: two to a phase, the phases 20 ms apart
+        assertThat(firstPolls).hasSize(100);
+        assertThat(firstPolls.subList(0, 4)).containsExactly(0L, 0L, 20L, 20L);
+        assertThat(firstPolls.get(99)).isEqualTo(980L);
+        assertThat(firstPolls.stream().distinct().count()).isEqualTo(50);
+    }
+
+    @Test
+    void periodsTooShortForTwoPhasesKeepTheInstrumentsTogether() {
+        List<PolledInstrument> meters = List.of(counting("meter-0", Duration.ofMillis(30)),
+                counting("meter-1", Duration.ofMillis(30)), counting("meter-2", Duration.ofSeconds(5)));
+        BusPoller poller = new BusPoller("hall-b", transport, meters, time, readings::add, Backoff.DEFAULT);
+
+        poller.spreadOverThePeriod(time.monotonicNanos());
+        poller.runDue();
+
+        // the shortest period (30 ms) holds one 20 ms phase only: all polled at once, as when driven
+        assertThat(readings).extracting(Reading::channel).containsExactly("meter-0", "meter-1", "meter-2");
+    }
+
+    /** Steps the clock 10 ms at a time and notes when each channel was first read, in ms from now. */
+    private List<Long> firstPollMillis(BusPoller poller, int channels, Duration span) {
+        Instant start = time.wallNow();
+        java.util.Map<String, Long> first = new java.util.LinkedHashMap<>();
+        for (long ms = 0; ms < span.toMillis(); ms += 10) {
+            poller.runDue();
+            for (Reading reading : readings) {
+                first.putIfAbsent(reading.channel(), Duration.between(start, reading.timestamp()).toMillis());
+            }
+            time.advance(Duration.ofMillis(10));
+        }
+        assertThat(first).hasSize(channels);
+        return new ArrayList<>(first.values());
+    }
+
+    /** An instrument of one channel whose driver reads 1.0 at every poll. */
+    private PolledInstrument counting(String channel, Duration period) {
+        ChannelDef def = Sites.channel(channel, Unit.PERCENT, period);
+        InstrumentDriver driver = new FakeDriver() {
+            @Override
+            public List<Reading> poll(List<String> channels, Transport transport) {
+                return List.of(Reading.good(channel, 1.0, Unit.PERCENT, time.wallNow()));
+            }
+        };
+        return new PolledInstrument(driver, List.of(def), List.of());
+    }
+
     private BusPoller modbusPoller() {
         return new BusPoller("cryostat-hall", transport, List.of(modbusInstrument()), time, readings::add,
                 Backoff.DEFAULT);
