@@ -46,6 +46,11 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
     static final String OUTBOX_SINK = "mqtt";
 
     private static final Logger LOG = LoggerFactory.getLogger(MqttBridge.class);
+    /**
+     * While readings stream in, the reading thread takes them at most this often: a bus polled instrument by
+     * instrument would otherwise wake it for every reading. A reading after a quiet spell goes out at once.
+     */
+    static final long READING_PACE_NANOS = TimeUnit.MILLISECONDS.toNanos(50);
 
     private final MqttLink link;
     private final String prefix;
@@ -63,6 +68,10 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
     private final ReentrantLock lock = new ReentrantLock();
     private final Condition readingsWaiting = lock.newCondition();
     private final LinkedHashMap<String, Reading> pendingReadings = new LinkedHashMap<>();
+    /** Every reading since the last take, in order, for the minute aggregates (publishing keeps the newest only). */
+    private List<Reading> unaggregated = new ArrayList<>();
+    /** True while the reading thread waits for the first reading after a quiet spell: only then is it woken. */
+    private boolean awaitingFirst;
     private final Map<String, Reading> latestReadings = new LinkedHashMap<>();
     private boolean republishReadings;
     private final EventOutbox outbox;
@@ -129,10 +138,12 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
     void offerReading(Reading reading) {
         lock.lock();
         try {
-            // The reading thread takes everything pending at once: only the first reading needs to wake it.
+            // The reading thread takes everything pending at once: only the first reading needs to wake it, and
+            // only when it waits for one (while readings stream in, it comes back on its own pace).
             boolean first = pendingReadings.isEmpty();
             pendingReadings.put(reading.channel(), reading);
-            if (first) {
+            unaggregated.add(reading);
+            if (first && awaitingFirst) {
                 readingsWaiting.signal();
             }
         } finally {
@@ -276,16 +287,32 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
     }
 
     private void readingLoop() {
+        boolean streaming = false;
+        long lastTake = System.nanoTime();
         while (running) {
             List<Reading> readings;
+            List<Reading> aggregated;
             boolean everything;
             lock.lock();
             try {
-                if (pendingReadings.isEmpty() && !republishReadings) {
-                    readingsWaiting.await(1, TimeUnit.SECONDS);
+                if (streaming) {
+                    long wait;
+                    while (running && !republishReadings
+                            && (wait = lastTake + READING_PACE_NANOS - System.nanoTime()) > 0) {
+                        readingsWaiting.awaitNanos(wait);
+                    }
+                } else if (pendingReadings.isEmpty() && !republishReadings) {
+                    awaitingFirst = true;
+                    try {
+                        readingsWaiting.await(1, TimeUnit.SECONDS);
+                    } finally {
+                        awaitingFirst = false;
+                    }
                 }
                 readings = new ArrayList<>(pendingReadings.values());
                 pendingReadings.clear();
+                aggregated = unaggregated;
+                unaggregated = new ArrayList<>(Math.max(16, aggregated.size()));
                 everything = republishReadings;
                 republishReadings = false;
             } catch (InterruptedException e) {
@@ -293,12 +320,16 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
             } finally {
                 lock.unlock();
             }
+            streaming = !readings.isEmpty();
+            lastTake = System.nanoTime();
             long now = time.monotonicNanos();
             if (everything) {
                 rbe.reset();
             }
             for (Reading reading : readings) {
                 latestReadings.put(reading.channel(), reading);
+            }
+            for (Reading reading : aggregated) {
                 try {
                     journal.recordReading(reading);
                 } catch (JournalException e) {
