@@ -3,6 +3,11 @@ package org.cryowarden.daemon.bench;
 import java.io.IOException;
 import java.nio.file.Files;
 import java.nio.file.Path;
+import java.sql.Connection;
+import java.sql.DriverManager;
+import java.sql.ResultSet;
+import java.sql.SQLException;
+import java.sql.Statement;
 import java.time.Duration;
 import java.util.ArrayList;
 import java.util.List;
@@ -103,8 +108,25 @@ final class BenchPlant implements AutoCloseable {
         return channelId(channel) + "-high";
     }
 
-    /** The journal's bytes on disk, write-ahead log included. */
-    long journalBytes() throws IOException {
+    /**
+     * The bytes the journal's data takes: its pages in use ({@code page_count - freelist_count}) as the newest
+     * snapshot sees them, the write-ahead log's frames counted where they belong. The files on disk
+     * ({@link #journalFileBytes}) also hold the log itself, which SQLite reuses in place and keeps at up to some
+     * 4 MB between checkpoints: the wrong measure of growth.
+     */
+    long journalStoredBytes() throws SQLException {
+        try (Connection connection = DriverManager.getConnection("jdbc:sqlite:" + daemon.journalFile());
+             Statement statement = connection.createStatement();
+             ResultSet pages = statement.executeQuery(
+                     "SELECT page_count, freelist_count, page_size FROM pragma_page_count, pragma_freelist_count,"
+                             + " pragma_page_size")) {
+            pages.next();
+            return (pages.getLong(1) - pages.getLong(2)) * pages.getLong(3);
+        }
+    }
+
+    /** The journal's bytes on disk, write-ahead log and shared-memory index included. */
+    long journalFileBytes() throws IOException {
         long bytes = 0;
         Path journal = daemon.journalFile();
         for (String suffix : List.of("", "-wal", "-shm")) {

@@ -48,7 +48,7 @@ final class FootprintSuite {
             long jit0 = jit.isCompilationTimeMonitoringSupported() ? jit.getTotalCompilationTime() : 0;
             long cpu0 = os.getProcessCpuTime();
             long device0 = deviceCpu(plant, threads);
-            long journal0 = plant.journalBytes();
+            long journal0 = plant.journalStoredBytes();
             long processed0 = LatencySuite.processed(plant);
             long start = System.nanoTime();
             long end = start + measure.toNanos();
@@ -70,7 +70,8 @@ final class FootprintSuite {
             long cpu = os.getProcessCpuTime() - cpu0;
             long jitMs = jit.isCompilationTimeMonitoringSupported() ? jit.getTotalCompilationTime() - jit0 : 0;
             long device = deviceCpu(plant, threads) - device0;
-            long journalGrowth = plant.journalBytes() - journal0;
+            long journalGrowth = plant.journalStoredBytes() - journal0;
+            long journalFiles = plant.journalFileBytes();
             long processed = LatencySuite.processed(plant) - processed0;
             System.gc();
             System.gc();
@@ -88,6 +89,7 @@ final class FootprintSuite {
             figures.put("cpu_percent_of_one_core", cpuPercent);
             figures.put("process_cpu_percent_with_bench_device", processCpuPercent);
             figures.put("journal_bytes_per_channel_hour", Math.max(journalPerChannelHour, 0));
+            figures.put("journal_file_bytes_at_end", (double) journalFiles);
             figures.put("readings_per_second", processed / wall);
             figures.put("wall_seconds", wall);
             figures.put("warm_up_seconds", (double) warmed.toSeconds());
@@ -114,8 +116,9 @@ final class FootprintSuite {
                     + " the bench device's threads", cpuPercent, CPU_BUDGET_PERCENT, processCpuPercent));
             lines.add(String.format(Locale.ROOT, "                  JIT compiling meanwhile: %.2f %% (elapsed time of the"
                     + " compilations, an upper bound on their share; it fades as the night goes on)", jitPercent));
-            lines.add(String.format(Locale.ROOT, "  journal:        %,.0f bytes per channel-hour (%,d bytes in %.2f"
-                    + " channel-hours)", journalPerChannelHour, journalGrowth, channelHours));
+            lines.add(String.format(Locale.ROOT, "  journal:        %,.0f bytes per channel-hour (%,d bytes of pages in use"
+                    + " in %.2f channel-hours); %,d bytes on disk at the end, write-ahead log included",
+                    journalPerChannelHour, journalGrowth, channelHours, journalFiles));
             lines.add(String.format(Locale.ROOT, "  readings:       %,.1f per second taken by the engine",
                     processed / wall));
             return new BenchResult("footprint", figures, reference, ratio,
