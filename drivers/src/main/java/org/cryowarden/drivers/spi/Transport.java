@@ -21,8 +21,11 @@ public interface Transport extends AutoCloseable {
     /**
      * Waits at most {@code timeout} for bytes and copies those available, up to {@code length}, into
      * {@code buffer}; returns how many (0 when the timeout passed with none). Returns as soon as at least one
-     * byte is there, so protocol code can measure the gaps between arrivals itself; the timeout is honoured to
-     * well under a millisecond, unlike the 100 ms steps of some serial libraries.
+     * byte is there, so protocol code can measure the gaps between arrivals itself. Bytes already received are
+     * returned at once, even with a zero timeout. A serial link honours the timeout to well under a millisecond,
+     * unlike the 100 ms steps of some serial libraries; TCP rounds it up to the next whole millisecond, the
+     * resolution of the socket timeout, since a device server's chunking and the network's jitter are far coarser
+     * and a wait must never end early.
      */
     int read(byte[] buffer, int offset, int length, Duration timeout) throws IOException;
 

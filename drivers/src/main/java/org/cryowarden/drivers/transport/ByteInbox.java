@@ -6,7 +6,7 @@ import java.util.concurrent.locks.Condition;
 import java.util.concurrent.locks.ReentrantLock;
 
 /**
- * The hand-over between a transport's reader thread (which blocks in the serial library or the socket) and the
+ * The hand-over between the serial transport's reader thread (which blocks in the serial library) and the
  * poller thread (which waits for bytes with exact timeouts). A bounded ring: when the poller does not keep up,
  * the oldest bytes are dropped and counted. Once {@link #fail failed}, readers get the failure as an
  * {@link IOException} after the bytes already received.
