@@ -12,6 +12,7 @@ import java.util.Set;
 import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.ConcurrentHashMap;
 import java.util.concurrent.ConcurrentLinkedQueue;
+import java.util.concurrent.atomic.AtomicInteger;
 import java.util.concurrent.locks.Condition;
 import java.util.concurrent.locks.ReentrantLock;
 import org.cryowarden.drivers.spi.FaultCounters;
@@ -41,6 +42,9 @@ public final class BusPoller implements AutoCloseable {
     private static final Logger LOG = LoggerFactory.getLogger(BusPoller.class);
     /** The least time between two phases of a bus's polling ({@link #spreadOverThePeriod}). */
     static final Duration PHASE_GAP = Duration.ofMillis(20);
+    /** Pollers started in this process: each next one starts its phases at another point of the gap. */
+    private static final AtomicInteger STARTED = new AtomicInteger();
+    private static final double GOLDEN = (Math.sqrt(5) - 1) / 2;
 
     private final String busId;
     private final Transport transport;
@@ -221,7 +225,10 @@ public final class BusPoller implements AutoCloseable {
     }
 
     private void loop() {
-        spreadOverThePeriod(time.monotonicNanos());
+        // The k-th bus starts its phases at frac(k * 0.618) of the gap: any number of buses interleave evenly, so
+        // that their phases do not fall on the same instants either.
+        double share = (STARTED.getAndIncrement() * GOLDEN) % 1.0;
+        spreadOverThePeriod(time.monotonicNanos() + (long) (share * PHASE_GAP.toNanos()));
         while (running) {
             long next;
             try {
