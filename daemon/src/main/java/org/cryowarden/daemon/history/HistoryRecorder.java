@@ -21,9 +21,9 @@ import org.slf4j.LoggerFactory;
  * Keeps every reading the engine took in the journal's raw history: one {@link BlockEncoder} per channel, fed on
  * the engine thread with the reading stamped at the instant the engine took it (so a replay feeds it at the same
  * instant). Every flush interval the open blocks are handed to the history writer thread, which upserts them on
- * the journal's history connection; a block is sealed after an hour or 3600 readings. The engine thread never
- * waits: what it hands over replaces the previous, unwritten snapshot of the same block, so the hand-over holds
- * at most one snapshot per block. Retention pruning runs on the writer thread.
+ * the journal's history connection; a block is sealed once it spans the settings' block length (15 min or 900
+ * readings by default). The engine thread never waits: what it hands over replaces the previous, unwritten
+ * snapshot of the same block, so the hand-over holds at most one snapshot per block. Retention pruning runs on the writer thread.
  *
  * <p>{@link #record} and {@link #tick} are called on the engine thread only; {@link #close} after the engine
  * stopped.
