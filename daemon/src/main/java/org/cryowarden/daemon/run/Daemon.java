@@ -291,7 +291,7 @@ public final class Daemon implements AutoCloseable {
         if (options.mode() == Mode.THREADS) {
             loop.start();
             for (BusPoller poller : pollers) {
-                poller.start();
+                poller.start(settings.spreadPolls());
             }
             notifications.ifPresent(NotifyService::start);
             watchdog.start();
@@ -522,7 +522,7 @@ public final class Daemon implements AutoCloseable {
 
     /** The site sections read only at startup: a change to them is reported as needing a restart. */
     static final List<String> RESTART_SECTIONS = List.of("mqtt", "journal", "api", "watchdog", "common_alarm",
-            "operators");
+            "operators", "polling");
 
     /**
      * Re-reads the site and rule files, and the roster and secrets the notifiers name. An invalid set keeps the
@@ -635,7 +635,7 @@ public final class Daemon implements AutoCloseable {
             BusPoller poller = SiteDrivers.poller(bus, SiteDrivers.context(fresh.site(), time), catalog, time,
                     loop::offer, options.backoff());
             if (options.mode() == Mode.THREADS) {
-                poller.start();
+                poller.start(settings.spreadPolls());
             }
             LOG.info("reload: bus '{}' {}", bus.id(), current == null ? "added" : "changed; its poller restarted");
             next.add(poller);

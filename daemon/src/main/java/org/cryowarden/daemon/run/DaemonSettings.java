@@ -29,6 +29,7 @@ import org.cryowarden.rules.model.SiteDef;
  *           client_id: ..., username: ..., password_file: FILE | password_env: VARIABLE,
  *           ca_file: PEM, client_cert: PEM, client_key: PEM, max_interval: 5min, deadbands: {CHANNEL: "0.05 %vol"}}
  * journal: {path: FILE, retention: 90d, history_flush: 10s, history_retention: 14d}
+ * polling: {spread: true}
  * api:     {port: 8741}   (token_file is accepted but unused: see warnings())
  * </pre>
  * Relative paths are resolved against the site file's folder.
@@ -40,6 +41,9 @@ import org.cryowarden.rules.model.SiteDef;
  * @param passwordEnv  an environment variable holding the MQTT password, instead of {@code passwordFile}
  * @param tls          certificates for an {@code ssl://} broker, checked (present, readable, PEM) when read
  * @param operators    who may give which command, from the {@code operators} section
+ * @param spreadPolls  whether each bus's instruments are polled in phases spread over their period (default) or
+ *                     all at once: spread gives an alarm's reading a free line and cores at the price of one
+ *                     wake-up of the poller per instrument, which on a small server can matter more
  */
 public record DaemonSettings(
         Optional<String> broker,
@@ -57,7 +61,8 @@ public record DaemonSettings(
         HistorySettings history,
         Optional<String> passwordEnv,
         LinkTls tls,
-        OperatorRoster operators) {
+        OperatorRoster operators,
+        boolean spreadPolls) {
 
     public static final int DEFAULT_MQTT_PORT = 1883;
     public static final int DEFAULT_API_PORT = 8741;
@@ -178,6 +183,9 @@ public record DaemonSettings(
         Optional<Integer> apiPort = api.bool("enabled").orElse(true)
                 ? Optional.of(api.integer("port", 0, 65535).orElse(DEFAULT_API_PORT)) : Optional.empty();
         Optional<Path> tokenFile = api.text("token_file").map(p -> siteFolder.resolve(p));
+        Section polling = new Section("polling", site.sections().get("polling"), problems);
+        polling.allowOnly("spread");
+        boolean spreadPolls = polling.bool("spread").orElse(true);
         OperatorRoster operators = OperatorRoster.none();
         try {
             operators = OperatorRoster.read(site);
@@ -188,7 +196,7 @@ public record DaemonSettings(
             throw new ConfigException(problems);
         }
         return new DaemonSettings(broker, port, prefix, clientId, username, passwordFile, maxInterval, deadbands,
-                journalPath, retention, apiPort, tokenFile, history, passwordEnv, tls, operators);
+                journalPath, retention, apiPort, tokenFile, history, passwordEnv, tls, operators, spreadPolls);
     }
 
     /**
@@ -253,37 +261,37 @@ public record DaemonSettings(
 
     public DaemonSettings withBroker(Optional<String> uri, int port) {
         return new DaemonSettings(uri, port, prefix, clientId, username, passwordFile, maxInterval, deadbands,
-                journalPath, retention, apiPort, tokenFile, history, passwordEnv, tls, operators);
+                journalPath, retention, apiPort, tokenFile, history, passwordEnv, tls, operators, spreadPolls);
     }
 
     public DaemonSettings withJournal(Path path) {
         return new DaemonSettings(broker, embeddedPort, prefix, clientId, username, passwordFile, maxInterval,
-                deadbands, path, retention, apiPort, tokenFile, history, passwordEnv, tls, operators);
+                deadbands, path, retention, apiPort, tokenFile, history, passwordEnv, tls, operators, spreadPolls);
     }
 
     public DaemonSettings withPrefix(String topicPrefix, String client) {
         return new DaemonSettings(broker, embeddedPort, topicPrefix, client, username, passwordFile, maxInterval,
-                deadbands, journalPath, retention, apiPort, tokenFile, history, passwordEnv, tls, operators);
+                deadbands, journalPath, retention, apiPort, tokenFile, history, passwordEnv, tls, operators, spreadPolls);
     }
 
     public DaemonSettings withApi(Optional<Integer> port, Optional<Path> token) {
         return new DaemonSettings(broker, embeddedPort, prefix, clientId, username, passwordFile, maxInterval,
-                deadbands, journalPath, retention, port, token, history, passwordEnv, tls, operators);
+                deadbands, journalPath, retention, port, token, history, passwordEnv, tls, operators, spreadPolls);
     }
 
     public DaemonSettings withOperators(OperatorRoster roster) {
         return new DaemonSettings(broker, embeddedPort, prefix, clientId, username, passwordFile, maxInterval,
-                deadbands, journalPath, retention, apiPort, tokenFile, history, passwordEnv, tls, roster);
+                deadbands, journalPath, retention, apiPort, tokenFile, history, passwordEnv, tls, roster, spreadPolls);
     }
 
     public DaemonSettings withMaxInterval(Duration interval) {
         return new DaemonSettings(broker, embeddedPort, prefix, clientId, username, passwordFile, interval,
-                deadbands, journalPath, retention, apiPort, tokenFile, history, passwordEnv, tls, operators);
+                deadbands, journalPath, retention, apiPort, tokenFile, history, passwordEnv, tls, operators, spreadPolls);
     }
 
     public DaemonSettings withHistory(HistorySettings settings) {
         return new DaemonSettings(broker, embeddedPort, prefix, clientId, username, passwordFile, maxInterval,
-                deadbands, journalPath, retention, apiPort, tokenFile, settings, passwordEnv, tls, operators);
+                deadbands, journalPath, retention, apiPort, tokenFile, settings, passwordEnv, tls, operators, spreadPolls);
     }
 
     private record DeadbandTarget(org.cryowarden.rules.Unit unit) {

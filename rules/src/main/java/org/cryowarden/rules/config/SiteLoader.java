@@ -34,9 +34,9 @@ import org.cryowarden.rules.model.ValueRange;
 public final class SiteLoader {
 
     static final List<String> TOP_KEYS = List.of("site", "buses", "derived", "mqtt", "journal", "api", "notifiers",
-            "watchdog", "common_alarm", "operators");
+            "watchdog", "common_alarm", "operators", "polling");
     static final List<String> SECTIONS = List.of("mqtt", "journal", "api", "notifiers", "watchdog",
-            "common_alarm", "operators");
+            "common_alarm", "operators", "polling");
     static final List<String> SITE_KEYS = List.of("name", "ambient_pressure", "time_zone");
     static final List<String> BUS_KEYS = List.of("id", "transport", "instruments");
     static final List<String> TRANSPORT_KINDS = List.of("serial", "tcp");
