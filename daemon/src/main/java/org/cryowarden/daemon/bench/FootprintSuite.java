@@ -37,7 +37,8 @@ final class FootprintSuite {
         Duration measure = settings.measure(Duration.ofMinutes(10));
         Duration warm = settings.seconds().isPresent() ? Duration.ofSeconds(1) : WARM_AT_LEAST;
         try (BrokerChoice broker = BrokerChoice.open(settings);
-             BenchPlant plant = BenchPlant.start(CHANNELS, BUSES, Duration.ofSeconds(1), broker.uri())) {
+             BenchPlant plant = BenchPlant.start(CHANNELS, BUSES, Duration.ofSeconds(1), broker.uri(),
+                     settings.together())) {
             settings.say("footprint: " + CHANNELS + " channels at 1 Hz, warming up at least " + warm.toSeconds()
                     + " s, then measuring " + measure.toSeconds() + " s of real time on the " + broker.description());
             var jit = ManagementFactory.getCompilationMXBean();
@@ -101,7 +102,8 @@ final class FootprintSuite {
             ratio.put("cpu_to_budget", cpuPercent / CPU_BUDGET_PERCENT);
             boolean meets = heapMb < HEAP_BUDGET_MB && cpuPercent < CPU_BUDGET_PERCENT;
             List<String> lines = new ArrayList<>();
-            lines.add("footprint: " + CHANNELS + " channels at 1 Hz on " + BUSES + " Modbus TCP buses, "
+            lines.add("footprint: " + CHANNELS + " channels at 1 Hz on " + BUSES + " Modbus TCP buses polled "
+                    + (settings.together() ? "each all at once" : "instrument by instrument in phases") + ", "
                     + 2 * CHANNELS + " rules, journal and MQTT on the " + broker.description()
                     + String.format(Locale.ROOT, ", %.0f s of real time (scaled to an hour) after %d s of warm-up",
                     wall, warmed.toSeconds()));

@@ -48,6 +48,10 @@ final class BenchCommand implements Callable<Integer> {
             + " Recorder stream in the process, which costs some CPU of its own)")
     boolean stages;
 
+    @Option(names = "--together", description = "latency, footprint: poll each bus's instruments together (the"
+            + " site setting polling: {spread: false}), not spread over their period")
+    boolean together;
+
     @Override
     public Integer call() throws Exception {
         PrintWriter out = spec.commandLine().getOut();
@@ -68,7 +72,7 @@ final class BenchCommand implements Callable<Integer> {
             return BAD_INPUT;
         }
         BenchSettings settings = new BenchSettings(Optional.ofNullable(seconds).map(Duration::ofSeconds), broker, stages,
-                err);
+                together, err);
         BenchResult result = Bench.run(suite, settings);
         out.println(json ? Payloads.text(result.json()) : result.text());
         out.flush();

@@ -78,6 +78,20 @@ class BenchCommandTest {
     }
 
     @Test
+    @Timeout(value = 3, unit = TimeUnit.MINUTES)
+    void footprintTogetherPollsEachBusAllAtOnceAndSaysSo() {
+        StringWriter out = new StringWriter();
+        StringWriter err = new StringWriter();
+
+        int exit = commandLine(out, err).execute("bench", "footprint", "--seconds", "1", "--together");
+
+        assertThat(exit).as(err.toString()).isZero();
+        assertThat(out.toString()).contains("Modbus TCP buses polled each all at once");
+        // 200 channels at 1 Hz (the suite's own load): a second of it takes readings of every bus
+        assertThat(out.toString()).containsPattern("readings: +[1-9][\\d,.]* per second");
+    }
+
+    @Test
     void unknownSuiteIsRefusedWithTheListOfSuites() {
         StringWriter out = new StringWriter();
         StringWriter err = new StringWriter();
