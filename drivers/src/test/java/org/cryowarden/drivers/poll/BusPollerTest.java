@@ -197,13 +197,7 @@ class BusPollerTest {
 
     @Test
     void realTimePollingSpreadsTheInstrumentsOverTheirPeriod() {
-        List<PolledInstrument> meters = new ArrayList<>();
-        for (int i = 0; i < 4; i++) {
-            meters.add(counting("meter-" + i, Duration.ofSeconds(1)));
-        }
-        BusPoller poller = new BusPoller("hall-b", transport, meters, time, readings::add, Backoff.DEFAULT);
-
-        poller.spreadOverThePeriod(time.monotonicNanos());
+        BusPoller poller = spreadPoller(4);
         List<Long> firstPolls = firstPollMillis(poller, 4, Duration.ofSeconds(2));
 
         // four instruments on a 1 s period: one every 250 ms, the first at once (the phases divide the period evenly)
@@ -213,13 +207,7 @@ class BusPollerTest {
 
     @Test
     void phasesStayAtLeastTwentyMillisecondsApartWithManyInstruments() {
-        List<PolledInstrument> meters = new ArrayList<>();
-        for (int i = 0; i < 100; i++) {
-            meters.add(counting("meter-" + i, Duration.ofSeconds(1)));
-        }
-        BusPoller poller = new BusPoller("hall-b", transport, meters, time, readings::add, Backoff.DEFAULT);
-
-        poller.spreadOverThePeriod(time.monotonicNanos());
+        BusPoller poller = spreadPoller(100);
         List<Long> firstPolls = firstPollMillis(poller, 100, Duration.ofSeconds(2));
 
         // 1 s / 20 ms = 50 phases for 100 instruments: two to a phase, the phases 20 ms apart
@@ -240,6 +228,17 @@ class BusPollerTest {
 
         // the shortest period (30 ms) holds one 20 ms phase only: all polled at once, as when driven
         assertThat(readings).extracting(Reading::channel).containsExactly("meter-0", "meter-1", "meter-2");
+    }
+
+    /** A poller of {@code count} one-channel instruments on a 1 s period, spread from now. */
+    private BusPoller spreadPoller(int count) {
+        List<PolledInstrument> meters = new ArrayList<>();
+        for (int i = 0; i < count; i++) {
+            meters.add(counting("meter-" + i, Duration.ofSeconds(1)));
+        }
+        BusPoller poller = new BusPoller("hall-b", transport, meters, time, readings::add, Backoff.DEFAULT);
+        poller.spreadOverThePeriod(time.monotonicNanos());
+        return poller;
     }
 
     /** Steps the clock 10 ms at a time and notes when each channel was first read, in ms from now. */
