@@ -48,6 +48,7 @@ public final class BusPoller implements AutoCloseable {
 
     private final String busId;
     private final Transport transport;
+    /** The instruments with channels to poll (one that only drives outputs is written, never polled). */
     private final List<Polled> polled = new ArrayList<>();
     private final List<PolledInstrument> instruments;
     private final TimeSource time;
@@ -77,7 +78,9 @@ public final class BusPoller implements AutoCloseable {
         this.backoff = Objects.requireNonNull(backoff, "backoff");
         long now = time.monotonicNanos();
         for (PolledInstrument instrument : this.instruments) {
-            polled.add(new Polled(instrument, now));
+            if (!instrument.channels().isEmpty()) {
+                polled.add(new Polled(instrument, now));
+            }
         }
         this.nextReopenAt = now;
         this.lastRoundNanos = now;
@@ -101,9 +104,6 @@ public final class BusPoller implements AutoCloseable {
         runWrites(now);
         long next = Long.MAX_VALUE;
         for (Polled instrument : polled) {
-            if (instrument.slots.length == 0) {
-                continue; // outputs only: written, never polled
-            }
             if (now - instrument.nextDue >= 0) {
                 poll(instrument.instrument, instrument.takeDue(now), now);
             }
@@ -126,17 +126,13 @@ public final class BusPoller implements AutoCloseable {
      * are coarser than the phases, and polls its instruments together.
      */
     void spreadOverThePeriod(long now) {
-        List<Polled> read = new ArrayList<>();
         long shortest = Long.MAX_VALUE;
         for (Polled instrument : polled) {
             for (Slot slot : instrument.slots) {
                 shortest = Math.min(shortest, slot.period);
             }
-            if (instrument.slots.length > 0) {
-                read.add(instrument);
-            }
         }
-        int count = read.size();
+        int count = polled.size();
         if (count < 2) {
             return;
         }
@@ -145,7 +141,7 @@ public final class BusPoller implements AutoCloseable {
             return;
         }
         for (int i = 0; i < count; i++) {
-            read.get(i).startAt(now + shortest * ((long) i * phases / count) / phases);
+            polled.get(i).startAt(now + shortest * ((long) i * phases / count) / phases);
         }
     }
 
@@ -405,7 +401,7 @@ public final class BusPoller implements AutoCloseable {
         return a == Long.MAX_VALUE ? b : (b - a < 0 ? b : a);
     }
 
-    /** An instrument with its channels' schedule; {@code nextDue} is the earliest of its slots. */
+    /** An instrument with at least one channel, and their schedule; {@code nextDue} is the earliest of its slots. */
     private static final class Polled {
         final PolledInstrument instrument;
         final Slot[] slots;
@@ -423,14 +419,12 @@ public final class BusPoller implements AutoCloseable {
         /** The slots due at {@code now} (called when {@code nextDue} has come), each moved on by its period. */
         List<Slot> takeDue(long now) {
             List<Slot> due = new ArrayList<>(slots.length);
+            long next = Long.MAX_VALUE;
             for (Slot slot : slots) {
                 if (now - slot.nextDue >= 0) {
                     due.add(slot);
                     slot.advance(now);
                 }
-            }
-            long next = slots[0].nextDue;
-            for (Slot slot : slots) {
                 next = earlier(next, slot.nextDue);
             }
             nextDue = next;
