@@ -11,6 +11,7 @@ import java.util.Optional;
 import java.util.Set;
 import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.atomic.AtomicLong;
+import java.util.concurrent.locks.ReentrantLock;
 import java.util.function.Function;
 import org.cryowarden.rules.Reading;
 import org.cryowarden.rules.TimeSource;
@@ -42,7 +43,11 @@ import org.slf4j.LoggerFactory;
  * commands to the output writer. Nothing here does I/O.
  *
  * <p>Either runs its own thread ({@link #start()}, real time) or is driven by a caller that moves a virtual clock
- * ({@link #drain()}, the demo's night).
+ * ({@link #drain()}, the demo's night). In real time a reading is evaluated on the thread that offers it when
+ * the engine is free (the poller that just read it), so a crossing goes on to the journal without waking the
+ * engine thread: on a virtual machine each wake-up costs tens of microseconds of the alarm's way out and of
+ * CPU. The engine thread then only ticks, runs tasks, and takes readings that queued while the engine was
+ * busy. Whoever runs the engine holds its turn, so it still runs on one thread at a time.
  */
 final class EngineLoop implements AutoCloseable {
 
@@ -66,13 +71,16 @@ final class EngineLoop implements AutoCloseable {
     }
 
     private final Inbox inbox = new Inbox();
+    /** Held by whichever thread runs the engine. */
+    private final ReentrantLock turn = new ReentrantLock();
+    /** Whether offering threads run the engine themselves (real time, after {@link #start()}). */
+    private volatile boolean offererRuns;
     private final TimeSource time;
     private final Sinks sinks;
     private final Duration tickEvery;
     private final DisagreeAlarms disagree = new DisagreeAlarms();
     private final AtomicLong processed = new AtomicLong();
     private volatile long lagNanos;
-    private volatile boolean busy;
     private Engine engine;
     private Map<String, List<String>> derivedOf;
     private volatile boolean running;
@@ -100,6 +108,7 @@ final class EngineLoop implements AutoCloseable {
 
     void start() {
         running = true;
+        offererRuns = true;
         thread = new Thread(this::loop, "engine");
         thread.setDaemon(true);
         thread.start();
@@ -107,7 +116,35 @@ final class EngineLoop implements AutoCloseable {
 
     void offer(Reading reading) {
         PathStage.mark(PathStage.OFFERED, reading.channel(), 0);
-        inbox.offer(reading);
+        if (!offererRuns) {
+            inbox.offer(reading);
+            return;
+        }
+        inbox.offer(reading, false);
+        runHere();
+    }
+
+    /**
+     * Evaluates the waiting readings on this thread while the engine is free and no task waits. A reading queued
+     * by a thread that found the engine busy is seen by the holder's check after it lets go (here, or the engine
+     * thread's wait), so none is left until the next tick.
+     */
+    private void runHere() {
+        do {
+            if (!turn.tryLock()) {
+                return;
+            }
+            try {
+                List<Reading> readings;
+                while (!(readings = inbox.takeReadingsUnlessTasks()).isEmpty()) {
+                    evaluate(readings);
+                }
+            } catch (RuntimeException e) {
+                LOG.error("engine round on {} failed; carrying on", Thread.currentThread().getName(), e);
+            } finally {
+                turn.unlock();
+            }
+        } while (offererRuns && inbox.onlyReadingsWait());
     }
 
     /** Runs {@code task} on the engine thread, in order with everything else. */
@@ -222,20 +259,22 @@ final class EngineLoop implements AutoCloseable {
 
     /** Processes everything waiting and ticks, on the caller's thread (driven mode). */
     void drain() {
-        Inbox.Work work;
+        turn.lock();
         try {
-            work = inbox.take(0);
+            Inbox.Work work = inbox.take(0);
+            process(work);
+            dispatch(engine.tick());
+            sinks.ticked(time.wallNow());
         } catch (InterruptedException e) {
             Thread.currentThread().interrupt();
-            return;
+        } finally {
+            turn.unlock();
         }
-        process(work);
-        dispatch(engine.tick());
-        sinks.ticked(time.wallNow());
     }
 
+    /** Nothing waits and no thread runs the engine (readings are taken only by the turn's holder). */
     boolean idle() {
-        return inbox.depth() == 0 && !busy;
+        return inbox.depth() == 0 && !turn.isLocked();
     }
 
     int depth() {
@@ -257,6 +296,7 @@ final class EngineLoop implements AutoCloseable {
 
     @Override
     public void close() {
+        offererRuns = false;
         running = false;
         inbox.wake();
         if (thread != null) {
@@ -271,9 +311,17 @@ final class EngineLoop implements AutoCloseable {
     private void loop() {
         while (running) {
             try {
-                Inbox.Work work = inbox.take(tickEvery.toNanos());
-                busy = true;
-                process(work);
+                // Wait outside the turn, take inside it: a reading taken before an offerer ran the engine on a
+                // newer one of the same channel would otherwise be evaluated after it.
+                long untilTick = lastTick == Long.MIN_VALUE ? 0
+                        : tickEvery.toNanos() - (time.monotonicNanos() - lastTick);
+                inbox.await(untilTick);
+                turn.lockInterruptibly();
+            } catch (InterruptedException e) {
+                return;
+            }
+            try {
+                process(inbox.take(0));
                 long now = time.monotonicNanos();
                 if (lastTick == Long.MIN_VALUE || now - lastTick >= tickEvery.toNanos()) {
                     lastTick = now;
@@ -285,7 +333,7 @@ final class EngineLoop implements AutoCloseable {
             } catch (RuntimeException e) {
                 LOG.error("engine loop failed a round; carrying on", e);
             } finally {
-                busy = false;
+                turn.unlock();
             }
         }
     }
@@ -294,7 +342,11 @@ final class EngineLoop implements AutoCloseable {
         for (Runnable task : work.tasks()) {
             task.run();
         }
-        for (Reading reading : work.readings()) {
+        evaluate(work.readings());
+    }
+
+    private void evaluate(List<Reading> readings) {
+        for (Reading reading : readings) {
             List<EngineEvent> events;
             try {
                 events = engine.onReading(reading);
