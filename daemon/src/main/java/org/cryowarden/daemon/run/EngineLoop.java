@@ -261,12 +261,9 @@ final class EngineLoop implements AutoCloseable {
     void drain() {
         turn.lock();
         try {
-            Inbox.Work work = inbox.take(0);
-            process(work);
+            process(inbox.take());
             dispatch(engine.tick());
             sinks.ticked(time.wallNow());
-        } catch (InterruptedException e) {
-            Thread.currentThread().interrupt();
         } finally {
             turn.unlock();
         }
@@ -321,15 +318,13 @@ final class EngineLoop implements AutoCloseable {
                 return;
             }
             try {
-                process(inbox.take(0));
+                process(inbox.take());
                 long now = time.monotonicNanos();
                 if (lastTick == Long.MIN_VALUE || now - lastTick >= tickEvery.toNanos()) {
                     lastTick = now;
                     dispatch(engine.tick());
                     sinks.ticked(time.wallNow());
                 }
-            } catch (InterruptedException e) {
-                return;
             } catch (RuntimeException e) {
                 LOG.error("engine loop failed a round; carrying on", e);
             } finally {

@@ -58,14 +58,10 @@ final class Inbox {
         }
     }
 
-    /** What is waiting, tasks first; waits at most {@code nanos} when nothing is. */
-    Work take(long nanos) throws InterruptedException {
+    /** What is waiting, tasks first, without waiting ({@link #await(long)} waits). */
+    Work take() {
         lock.lock();
         try {
-            long wait = nanos;
-            while (readings.isEmpty() && tasks.isEmpty() && wait > 0) {
-                wait = ready.awaitNanos(wait);
-            }
             List<Runnable> taken = new ArrayList<>(tasks);
             tasks.clear();
             List<Reading> values = new ArrayList<>(readings.values());
