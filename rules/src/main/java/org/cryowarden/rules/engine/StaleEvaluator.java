@@ -9,6 +9,10 @@ import org.cryowarden.rules.Reading;
  * stale timeout running out) raises it only once the channel's stale timeout since the last GOOD reading has
  * passed, so one lost frame is not a page. Cleared by the next GOOD
  * reading; UNCERTAIN readings neither raise nor clear it.
+ *
+ * <p>When the rule reads a measured channel whose own stale timeout is no longer than the rule's, silence after a
+ * GOOD reading is the channel's to notice: its STALE reading raises this fault first. The rule's timer is then only
+ * armed while the latest reading is not GOOD, which keeps a thousand healthy channels' timers out of the queue.
  */
 final class StaleEvaluator extends RuleEvaluator {
 
@@ -16,7 +20,11 @@ final class StaleEvaluator extends RuleEvaluator {
     private final String channel;
     private final long timeoutNanos;
     private final long staleGraceNanos;
+    /** Whether the channel's own stale timeout notices silence after a GOOD reading before this rule would. */
+    private final boolean coveredByChannel;
     private long lastGood;
+    /** Whether the latest reading was GOOD; written only when it changes. */
+    private boolean latestGood;
     private final Timer timer = new Timer() {
         @Override
         void expire() {
@@ -27,18 +35,24 @@ final class StaleEvaluator extends RuleEvaluator {
     /**
      * @param staleGraceNanos how long after the last GOOD reading a STALE reading counts as a dead sensor: the
      *                        shorter of the rule's timeout and the channel's own stale timeout
+     * @param coveredByChannel whether {@code channel} is a measured channel whose stale timeout is no longer than
+     *                         {@code timeoutNanos}
      */
-    StaleEvaluator(AlarmRuntime alarm, Core core, String channel, long timeoutNanos, long staleGraceNanos) {
+    StaleEvaluator(AlarmRuntime alarm, Core core, String channel, long timeoutNanos, long staleGraceNanos,
+            boolean coveredByChannel) {
         super(alarm);
         this.core = core;
         this.channel = channel;
         this.timeoutNanos = timeoutNanos;
         this.staleGraceNanos = staleGraceNanos;
+        this.coveredByChannel = coveredByChannel;
     }
 
     void start(long now) {
         lastGood = now;
-        core.timers.schedule(timer, now + timeoutNanos);
+        if (!coveredByChannel) {
+            core.timers.schedule(timer, now + timeoutNanos);
+        }
     }
 
     @Override
@@ -47,13 +61,26 @@ final class StaleEvaluator extends RuleEvaluator {
         Quality quality = reading.quality();
         if (quality == Quality.GOOD) {
             lastGood = core.now;
-            if (!timer.queued) {
+            if (!latestGood) {
+                latestGood = true;
+            }
+            if (!coveredByChannel && !timer.queued) {
                 core.timers.schedule(timer, lastGood + timeoutNanos);
             }
             if (raw) {
                 change(false, reading, channel + " GOOD again");
             }
-        } else if (quality == Quality.BAD && !raw) {
+            return;
+        }
+        if (latestGood) {
+            latestGood = false;
+        }
+        if (!timer.queued && !raw) {
+            // Covered: after a GOOD reading the timer was let go. Had its time already run out, the channel's own
+            // stale timeout would have run out first and raised this fault before this reading.
+            core.timers.schedule(timer, lastGood + timeoutNanos);
+        }
+        if (quality == Quality.BAD && !raw) {
             change(true, reading, Texts.reading(reading));
         } else if (quality == Quality.STALE && !raw && core.now - lastGood >= staleGraceNanos) {
             // A driver reports one missed reply as STALE; that alone is not yet a dead sensor. The fault comes once
@@ -65,7 +92,9 @@ final class StaleEvaluator extends RuleEvaluator {
     private void timeout() {
         long due = lastGood + timeoutNanos;
         if (due - core.now > 0) {
-            core.timers.schedule(timer, due);
+            if (!(coveredByChannel && latestGood)) {
+                core.timers.schedule(timer, due);
+            }
         } else if (!raw) {
             change(true, null, "no GOOD reading of " + channel + " for " + Texts.nanos(timeoutNanos));
         }

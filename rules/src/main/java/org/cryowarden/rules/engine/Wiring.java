@@ -320,8 +320,10 @@ final class Wiring {
             if (timeout <= 0) {
                 throw refuse(rule, "the stale timeout must be positive, got " + Texts.nanos(timeout));
             }
+            long channelStale = staleAfter.get(stale.channel());
             StaleEvaluator evaluator = new StaleEvaluator(alarm, core, stale.channel(), timeout,
-                    Math.min(timeout, staleAfter.get(stale.channel())));
+                    Math.min(timeout, channelStale),
+                    core.measured.containsKey(stale.channel()) && channelStale <= timeout);
             staleRules.add(evaluator);
             return evaluator;
         }

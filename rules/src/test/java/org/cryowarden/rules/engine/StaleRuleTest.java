@@ -131,6 +131,48 @@ class StaleRuleTest {
                 "18:02:04 o2_b_fault normal -> active-unacknowledged: o2_b STALE (no reading for 5s, polled every 1s)");
     }
 
+    /**
+     * A rule whose timeout (30 s) is longer than the channel's own (5 s) lets the channel notice silence after a GOOD
+     * reading, even right after UNCERTAIN ones: the fault comes with the channel's STALE reading, 5 s after the last
+     * GOOD one.
+     */
+    @Test
+    void silenceAfterUncertainThenGoodReadingsRaisesTheFaultAtTheChannelsTimeout() {
+        Site site = oxygenSite(Optional.of(Duration.ofSeconds(30)));
+        site.read("o2_a", 20.9, Unit.PERCENT_VOLUME);
+        for (int second = 1; second <= 3; second++) {
+            site.advance(Duration.ofSeconds(1));
+            assertThat(site.read("o2_a", 20.9, Unit.PERCENT_VOLUME, Quality.UNCERTAIN, "cell end of life")).isEmpty();
+        }
+        site.advance(Duration.ofSeconds(1));
+        assertThat(site.read("o2_a", 20.9, Unit.PERCENT_VOLUME)).isEmpty();
+
+        assertThat(site.tickFor(Duration.ofSeconds(4))).isEmpty();
+        assertThat(site.advance(Duration.ofSeconds(1))).containsExactly(
+                "18:00:09 o2_a_fault normal -> active-unacknowledged: o2_a STALE (no reading for 5s, polled every 1s)");
+    }
+
+    /** After a long healthy run, UNCERTAIN readings still raise the fault exactly the rule's timeout after the last GOOD. */
+    @Test
+    void uncertainReadingsAfterALongGoodRunRaiseTheFaultAtTheRuleTimeout() {
+        Site site = oxygenSite(Optional.of(Duration.ofSeconds(30)));
+        for (int second = 0; second <= 60; second++) {
+            assertThat(site.read("o2_a", 20.9, Unit.PERCENT_VOLUME)).isEmpty();
+            assertThat(site.advance(Duration.ofSeconds(1))).isEmpty();
+        }
+        // The last GOOD reading was at 18:01:00.
+        for (int second = 61; second < 90; second++) {
+            assertThat(site.read("o2_a", 20.9, Unit.PERCENT_VOLUME, Quality.UNCERTAIN, "cell end of life"))
+                    .as("UNCERTAIN at %d s", second).isEmpty();
+            if (second < 89) {
+                assertThat(site.advance(Duration.ofSeconds(1))).as("tick after %d s", second).isEmpty();
+            }
+        }
+
+        assertThat(site.advance(Duration.ofSeconds(1))).containsExactly(
+                "18:01:30 o2_a_fault normal -> active-unacknowledged: no GOOD reading of o2_a for 30s");
+    }
+
     private static Site oxygenSite(Optional<Duration> timeout) {
         return new Site().channel("o2_a", Unit.PERCENT_VOLUME)
                 .rule(new StaleRule("o2_a_fault", "o2_a", timeout, alarm(Priority.HIGH, "Oxygen sensor A fault"),
