@@ -99,6 +99,12 @@ public final class Daemon implements AutoCloseable {
     private final OutputWriter outputs;
     private final HistoryRecorder history;
     private volatile Optional<NotifyService> notifications;
+    /**
+     * Held while the notifiers are replaced and, in driven mode, while a step runs their due work: a reload runs on
+     * the thread that asked for it, and a new service must not escalate before its resume has replayed the
+     * journal, nor the old one deliver while it closes.
+     */
+    private final java.util.concurrent.locks.ReentrantLock notifyTurn = new java.util.concurrent.locks.ReentrantLock();
     private final Optional<CommonAlarmContact> contact;
     private final Watchdog watchdog;
     private final SystemdNotify systemd;
@@ -354,7 +360,7 @@ public final class Daemon implements AutoCloseable {
      * readings and tick, on the caller's thread. Returns the monotonic time (ns) when a poll is next due.
      */
     public long step() {
-        notifications.ifPresent(NotifyService::runDue);
+        runNotificationsDue();
         long next = Long.MAX_VALUE;
         for (BusPoller poller : pollers) {
             long due = poller.runDue();
@@ -601,13 +607,28 @@ public final class Daemon implements AutoCloseable {
         Optional<NotifyService> before = notifications;
         Optional<NotifyService> after = night.notifiers().map(setup -> setup.service(journal, time,
                 fresh.site().name()));
-        notifications = after;
-        before.ifPresent(NotifyService::close); // before the new one delivers, so no notice goes out twice at once
-        after.ifPresent(Daemon::resumeEscalations);
-        if (options.mode() == Mode.THREADS) {
-            after.ifPresent(NotifyService::start);
+        notifyTurn.lock();
+        try {
+            notifications = after;
+            before.ifPresent(NotifyService::close); // before the new one delivers, so no notice goes out twice
+            after.ifPresent(Daemon::resumeEscalations);
+            if (options.mode() == Mode.THREADS) {
+                after.ifPresent(NotifyService::start);
+            }
+        } finally {
+            notifyTurn.unlock();
         }
         LOG.info("reload: notifiers {}", after.isPresent() ? "started again on the reloaded roster" : "off");
+    }
+
+    /** Driven mode: the notifiers' due work on the caller's thread, never beside a reload replacing them. */
+    private void runNotificationsDue() {
+        notifyTurn.lock();
+        try {
+            notifications.ifPresent(NotifyService::runDue);
+        } finally {
+            notifyTurn.unlock();
+        }
     }
 
     static Path siteFolder(Path siteFile) {
@@ -765,7 +786,7 @@ public final class Daemon implements AutoCloseable {
                 Optional.empty(), payload)), Map.of(), Map.of(), Payloads.object()));
         journalSink.close();
         if (options.mode() == Mode.DRIVEN) {
-            notifications.ifPresent(NotifyService::runDue); // with threads, the notify thread's own last round
+            runNotificationsDue(); // with threads, the notify thread's own last round
         }
         notifications.ifPresent(NotifyService::close);
         outputs.close();
