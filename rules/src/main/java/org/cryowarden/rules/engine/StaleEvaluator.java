@@ -11,8 +11,9 @@ import org.cryowarden.rules.Reading;
  * reading; UNCERTAIN readings neither raise nor clear it.
  *
  * <p>When the rule reads a measured channel whose own stale timeout is no longer than the rule's, silence after a
- * GOOD reading is the channel's to notice: its STALE reading raises this fault first. The rule's timer is then only
- * armed while the latest reading is not GOOD, which keeps a thousand healthy channels' timers out of the queue.
+ * GOOD reading is the channel's to notice: its STALE reading raises this fault no later than the rule's own timer
+ * would (where both come due at the same instant, either may name the fault). The rule's timer is then only armed
+ * while the latest reading is not GOOD, which keeps a thousand healthy channels' timers out of the queue.
  */
 final class StaleEvaluator extends RuleEvaluator {
 
