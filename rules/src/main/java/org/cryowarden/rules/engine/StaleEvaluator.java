@@ -24,8 +24,6 @@ final class StaleEvaluator extends RuleEvaluator {
     /** Whether the channel's own stale timeout notices silence after a GOOD reading before this rule would. */
     private final boolean coveredByChannel;
     private long lastGood;
-    /** Whether the latest reading was GOOD; written only when it changes. */
-    private boolean latestGood;
     private final Timer timer = new Timer() {
         @Override
         void expire() {
@@ -62,9 +60,6 @@ final class StaleEvaluator extends RuleEvaluator {
         Quality quality = reading.quality();
         if (quality == Quality.GOOD) {
             lastGood = core.now;
-            if (!latestGood) {
-                latestGood = true;
-            }
             if (!coveredByChannel && !timer.queued) {
                 core.timers.schedule(timer, lastGood + timeoutNanos);
             }
@@ -72,9 +67,6 @@ final class StaleEvaluator extends RuleEvaluator {
                 change(false, reading, channel + " GOOD again");
             }
             return;
-        }
-        if (latestGood) {
-            latestGood = false;
         }
         if (!timer.queued && !raw) {
             // Covered: after a GOOD reading the timer was let go. Had its time already run out, the channel's own
@@ -93,11 +85,16 @@ final class StaleEvaluator extends RuleEvaluator {
     private void timeout() {
         long due = lastGood + timeoutNanos;
         if (due - core.now > 0) {
-            if (!(coveredByChannel && latestGood)) {
+            if (!(coveredByChannel && latestGood())) {
                 core.timers.schedule(timer, due);
             }
         } else if (!raw) {
             change(true, null, "no GOOD reading of " + channel + " for " + Texts.nanos(timeoutNanos));
         }
+    }
+
+    /** Whether the channel's latest reading, as this rule saw it, is GOOD (false before any reading). */
+    private boolean latestGood() {
+        return lastNode != null && lastNode.latest != null && lastNode.latest.quality() == Quality.GOOD;
     }
 }
