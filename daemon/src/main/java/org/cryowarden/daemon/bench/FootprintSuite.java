@@ -13,6 +13,7 @@ import java.util.List;
 import java.util.Locale;
 import java.util.Map;
 import java.util.Set;
+import org.cryowarden.drivers.poll.BusPoller;
 
 /**
  * The daemon's footprint over a night, scaled down: 200 channels polled at 1 Hz with their rules, the journal
@@ -78,6 +79,10 @@ final class FootprintSuite {
             long journalGrowth = plant.journalStoredBytes() - journal0;
             long journalFiles = plant.journalFileBytes();
             long processed = LatencySuite.processed(plant) - processed0;
+            // after the measurement, so that it does not add to it
+            WakeCost wake = WakeCost.measure(BusPoller.PHASE_GAP, settings.seconds().isPresent() ? 10 : 100);
+            double pollerWakeUps = BUSES * (settings.together() ? 1.0
+                    : Math.min(CHANNELS / BUSES, Duration.ofSeconds(1).toNanos() / BusPoller.PHASE_GAP.toNanos()));
             System.gc();
             System.gc();
             Thread.sleep(200);
@@ -101,6 +106,8 @@ final class FootprintSuite {
                 }
             });
             figures.put("cpu_percent_jvm_own_threads", jvmOwnPercent);
+            figures.put("bare_timed_wake_up_cpu_us", wake.microsPerWakeUp());
+            figures.put("poller_wake_ups_per_second", pollerWakeUps);
             figures.put("journal_bytes_per_channel_hour", Math.max(journalPerChannelHour, 0));
             figures.put("journal_file_bytes_at_end", (double) journalFiles);
             figures.put("readings_per_second", processed / wall);
@@ -132,6 +139,10 @@ final class FootprintSuite {
                     + " compilations, an upper bound on their share; it fades as the night goes on)", jitPercent));
             lines.add("                  by thread: " + byThread(byRole, wall) + String.format(Locale.ROOT,
                     "; the JVM's own threads (JIT compilers, GC, VM) and threads that ended %.2f %%", jvmOwnPercent));
+            lines.add(String.format(Locale.ROOT, "  wake-ups:       a bare %d ms timed wait costs %.0f us of CPU per"
+                    + " wake-up on this machine; the pollers' %.0f wake-ups per second alone would cost %.2f %% at"
+                    + " that rate", BusPoller.PHASE_GAP.toMillis(), wake.microsPerWakeUp(), pollerWakeUps,
+                    wake.percentOfOneCoreAt(pollerWakeUps)));
             lines.add(String.format(Locale.ROOT, "  journal:        %,.0f bytes per channel-hour (%,d bytes of pages in use"
                     + " in %.2f channel-hours); %,d bytes on disk at the end, write-ahead log included",
                     journalPerChannelHour, journalGrowth, channelHours, journalFiles));

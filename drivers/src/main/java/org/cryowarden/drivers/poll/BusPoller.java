@@ -41,7 +41,7 @@ public final class BusPoller implements AutoCloseable {
 
     private static final Logger LOG = LoggerFactory.getLogger(BusPoller.class);
     /** The least time between two phases of a bus's polling ({@link #spreadOverThePeriod}). */
-    static final Duration PHASE_GAP = Duration.ofMillis(20);
+    public static final Duration PHASE_GAP = Duration.ofMillis(20);
     /** Pollers started in this process: each next one starts its phases at another point of the gap. */
     private static final AtomicInteger STARTED = new AtomicInteger();
     private static final double GOLDEN = (Math.sqrt(5) - 1) / 2;
