@@ -21,8 +21,10 @@ import org.cryowarden.drivers.poll.BusPoller;
  * after start (at least 30 s, at most 4 min). Measured: heap in use
  * after a full GC, resident set (VmRSS of /proc/self/status), CPU of one core from the process CPU time with the
  * bench device's threads taken out (and, beside it, how much of the time the JIT spent compiling), and journal
- * growth per channel-hour. One channel crosses its limit every 10 s and returns 3 s later, so alarms flow through
- * the journal and the broker too.
+ * growth per channel-hour; beside the CPU, which threads spent it ({@link ThreadCpu}) and, measured after the run,
+ * what one bare timed wake-up costs on the machine ({@link WakeCost}), since on a virtual machine the pollers'
+ * wake-ups rather than their work set the figure. One channel crosses its limit every 10 s and returns 3 s
+ * later, so alarms flow through the journal and the broker too.
  */
 final class FootprintSuite {
 
