@@ -205,11 +205,8 @@ final class FootprintSuite {
 
     private static long deviceCpu(BenchPlant plant, ThreadMXBean threads) {
         long total = 0;
-        for (BenchDevice device : plant.devices()) {
-            for (Thread thread : device.threads()) {
-                long cpu = threads.getThreadCpuTime(thread.getId());
-                total += Math.max(0, cpu);
-            }
+        for (long id : deviceThreadIds(plant)) {
+            total += Math.max(0, threads.getThreadCpuTime(id));
         }
         return total;
     }
