@@ -181,7 +181,7 @@ final class FootprintSuite {
         return Duration.ofNanos(System.nanoTime() - start);
     }
 
-    /** The roles that spent at least 0.01 % of a core, largest first: "poller 1.65 %, engine 0.08 %". */
+    /** The roles whose share rounds to at least 0.01 % of a core, largest first: "poller 1.65 %, engine 0.08 %". */
     private static String byThread(Map<String, Long> byRole, double wallSeconds) {
         List<String> parts = new ArrayList<>();
         byRole.forEach((role, nanos) -> {

@@ -59,7 +59,10 @@ final class ThreadCpu {
         return result;
     }
 
-    /** "poller bus-2" and "poller bus-3" are both "poller"; "cryowarden-mqtt-site-1-paho-4" is "mqtt link paho", Paho's "MQTT Rec: site-1" is "MQTT Rec". */
+    /**
+     * "poller bus-2" and "poller bus-3" are both "poller"; "cryowarden-mqtt-site-1-paho-4" is "mqtt link paho";
+     * Paho's "MQTT Rec: site-1" is "MQTT Rec".
+     */
     static String role(String threadName) {
         if (threadName.startsWith("poller ")) {
             return "poller";

@@ -17,6 +17,7 @@ import java.util.Map;
 import java.util.Optional;
 import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.CopyOnWriteArrayList;
+import java.util.concurrent.locks.ReentrantLock;
 import org.cryowarden.daemon.broker.BrokerStartException;
 import org.cryowarden.daemon.broker.EmbeddedBroker;
 import org.cryowarden.daemon.broker.PortChoice;
@@ -104,7 +105,7 @@ public final class Daemon implements AutoCloseable {
      * the thread that asked for it, and a new service must not escalate before its resume has replayed the
      * journal, nor the old one deliver while it closes.
      */
-    private final java.util.concurrent.locks.ReentrantLock notifyTurn = new java.util.concurrent.locks.ReentrantLock();
+    private final ReentrantLock notifyTurn = new ReentrantLock();
     private final Optional<CommonAlarmContact> contact;
     private final Watchdog watchdog;
     private final SystemdNotify systemd;
