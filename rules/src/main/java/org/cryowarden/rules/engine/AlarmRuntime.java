@@ -309,7 +309,7 @@ final class AlarmRuntime {
     }
 
     private Optional<Reading> lastReading() {
-        ChannelNode node = evaluator.lastNode;
+        ChannelNode node = evaluator.lastNode();
         return node == null ? Optional.empty() : Optional.ofNullable(node.latest);
     }
 
@@ -327,6 +327,7 @@ final class AlarmRuntime {
     /** Takes the facts back from a snapshot; the state is recomputed by {@link #settleAfterRestore()}. */
     void restore(EngineSnapshot.AlarmRecord record) {
         evaluator.raw = record.conditionActive();
+        evaluator.neverQuiet();
         active = record.conditionActive();
         rawCause = active ? "active before the restart" : "";
         unacknowledged = record.unacknowledged();

@@ -12,6 +12,7 @@ abstract class ChannelNode {
     private static final RuleEvaluator[] NO_RULES = new RuleEvaluator[0];
     private static final DerivedChannel[] NO_DERIVED = new DerivedChannel[0];
     private static final int[] NO_INPUTS = new int[0];
+    private static final double[] NO_BANDS = new double[0];
 
     final String id;
     final Unit unit;
@@ -21,9 +22,18 @@ abstract class ChannelNode {
      * several channels (vote, deviation) need not search for it on every reading.
      */
     int[] ruleInputs = NO_INPUTS;
+    /**
+     * Two values per rule of {@link #rules}: a GOOD reading strictly between them changes nothing in that rule,
+     * which is then not called ({@link RuleEvaluator#quietBetween}); NaN until the rule names its band.
+     */
+    double[] quiet = NO_BANDS;
     DerivedChannel[] dependents = NO_DERIVED;
     /** Null until the first reading. */
     Reading latest;
+    /** The engine's delivery count at this channel's latest reading: which input of a rule read last; 0 before. */
+    long delivered;
+    /** Monotonic time of the latest GOOD reading, or of the engine's start before any. */
+    long lastGood;
 
     ChannelNode(String id, Unit unit) {
         this.id = id;
@@ -36,8 +46,13 @@ abstract class ChannelNode {
         grown[rules.length] = rule;
         int[] positions = java.util.Arrays.copyOf(ruleInputs, ruleInputs.length + 1);
         positions[ruleInputs.length] = input;
+        double[] bands = java.util.Arrays.copyOf(quiet, quiet.length + 2);
+        bands[quiet.length] = Double.NaN;
+        bands[quiet.length + 1] = Double.NaN;
+        rule.attached(this, input, rules.length);
         rules = grown;
         ruleInputs = positions;
+        quiet = bands;
     }
 
     void addDependent(DerivedChannel derived) {

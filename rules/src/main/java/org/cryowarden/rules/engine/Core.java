@@ -5,6 +5,7 @@ import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
+import org.cryowarden.rules.Quality;
 import org.cryowarden.rules.Reading;
 import org.cryowarden.rules.TimeSource;
 import org.cryowarden.rules.model.OutputDef;
@@ -38,6 +39,13 @@ final class Core {
     /** Whether a reading, tick or command has been processed (after which a restore is refused). */
     boolean started;
     private final ArrayList<EngineEvent> events = new ArrayList<>();
+    /**
+     * Whether rules are skipped inside their quiet bands; false only in tests that hold the bands against
+     * evaluating every reading.
+     */
+    boolean skipQuiet = true;
+    /** Readings delivered to channels so far, measured and derived: orders {@link ChannelNode#delivered}. */
+    private long deliveries;
 
     Core(TimeSource time, double ambientPa) {
         this.time = time;
@@ -71,12 +79,26 @@ final class Core {
         events.add(event);
     }
 
-    /** Hands a reading to the rules of its channel, then to the derived channels computed from it. */
+    /**
+     * Hands a reading to the rules of its channel, skipping each rule whose quiet band holds a GOOD value, then to
+     * the derived channels computed from it.
+     */
     void deliver(ChannelNode node, Reading reading) {
         node.latest = reading;
+        node.delivered = ++deliveries;
+        boolean good = reading.quality() == Quality.GOOD;
+        double value = reading.value();
+        if (good) {
+            node.lastGood = now;
+        }
         RuleEvaluator[] rules = node.rules;
         int[] inputs = node.ruleInputs;
+        double[] quiet = node.quiet;
+        boolean skip = good && skipQuiet;
         for (int i = 0; i < rules.length; i++) {
+            if (skip && value > quiet[2 * i] && value < quiet[2 * i + 1]) {
+                continue;
+            }
             rules[i].onInput(node, inputs[i], reading);
         }
         for (DerivedChannel derived : node.dependents) {

@@ -16,8 +16,10 @@ final class DeviationEvaluator extends RuleEvaluator {
     private final double tolerance;
     private final String toleranceText;
     private final double ambientPa;
+    /** The latest GOOD value of each channel in {@link #unit}, NaN where not GOOD: filled at each evaluation. */
     private final double[] values;
-    private final boolean[] good;
+    /** Whether every channel is in {@link #unit}, so that a band in that unit holds for each of them. */
+    private final boolean oneUnit;
 
     DeviationEvaluator(AlarmRuntime alarm, ChannelNode[] channels, double tolerance, double ambientPa) {
         super(alarm);
@@ -27,7 +29,11 @@ final class DeviationEvaluator extends RuleEvaluator {
         this.toleranceText = Texts.quantity(tolerance, unit);
         this.ambientPa = ambientPa;
         this.values = new double[channels.length];
-        this.good = new boolean[channels.length];
+        boolean same = true;
+        for (ChannelNode channel : channels) {
+            same &= channel.unit == unit;
+        }
+        this.oneUnit = same;
     }
 
     @Override
@@ -37,32 +43,46 @@ final class DeviationEvaluator extends RuleEvaluator {
 
     @Override
     void onInput(ChannelNode node, int i, Reading reading) {
-        saw(node);
-        if (reading.quality() == Quality.GOOD) {
-            good[i] = true;
-            values[i] = node.unit == unit ? reading.value() : node.unit.convert(reading.value(), unit, ambientPa);
-        } else {
-            good[i] = false;
-        }
+        // Each channel's latest reading is its node's: a reading this rule skipped (inside the band) is read here too.
         int lowest = -1;
         int highest = -1;
         int goodCount = 0;
         for (int j = 0; j < channels.length; j++) {
-            if (good[j]) {
+            Reading latest = channels[j].latest;
+            double value = Double.NaN;
+            if (latest != null && latest.quality() == Quality.GOOD) {
+                ChannelNode channel = channels[j];
+                value = channel.unit == unit ? latest.value() : channel.unit.convert(latest.value(), unit, ambientPa);
+            }
+            values[j] = value;
+            if (value == value) {
                 goodCount++;
-                if (lowest < 0 || values[j] < values[lowest]) {
+                if (lowest < 0 || value < values[lowest]) {
                     lowest = j;
                 }
-                if (highest < 0 || values[j] > values[highest]) {
+                if (highest < 0 || value > values[highest]) {
                     highest = j;
                 }
             }
         }
         if (goodCount < 2) {
+            neverQuiet();
             return;
         }
         double spread = values[highest] - values[lowest];
         boolean past = spread > tolerance;
+        double centre = (values[highest] + values[lowest]) / 2;
+        // Short of half the tolerance by more than rounding could ever add to a difference of such values.
+        double half = tolerance / 2 - (tolerance * 1e-9 + 4 * Math.ulp(Math.abs(centre) + tolerance));
+        if (!past && goodCount == channels.length && oneUnit && half > 0 && spread / 2 <= half) {
+            // Every value inside one band narrower than the tolerance, holding the present values, keeps the spread
+            // within it; a channel that turns other than GOOD is evaluated, so the band may be shared.
+            for (int j = 0; j < channels.length; j++) {
+                quietBetween(j, centre - half, centre + half);
+            }
+        } else {
+            neverQuiet();
+        }
         if (past != raw) {
             change(past, reading, past
                     ? channels[highest].id + " and " + channels[lowest].id + " differ by " + Texts.quantity(spread, unit)

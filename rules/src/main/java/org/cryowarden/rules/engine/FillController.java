@@ -71,7 +71,6 @@ final class FillController extends RuleEvaluator {
 
     @Override
     void onReading(ChannelNode node, Reading reading) {
-        saw(node);
         if (reading.quality() != Quality.GOOD) {
             if (state == FillState.FILLING) {
                 close(FillStopReason.LEVEL_UNUSABLE, "level reading not GOOD: " + Texts.reading(reading));
@@ -146,7 +145,8 @@ final class FillController extends RuleEvaluator {
     }
 
     private Reading lastReading() {
-        return lastNode == null ? null : lastNode.latest;
+        ChannelNode node = lastNode();
+        return node == null ? null : node.latest;
     }
 
     String reset(String operator) {

@@ -81,7 +81,6 @@ final class ForecastEvaluator extends RuleEvaluator {
 
     @Override
     void onReading(ChannelNode node, Reading reading) {
-        saw(node);
         if (reading.quality() != Quality.GOOD) {
             publish(new Reading(idOrChannel(), Double.NaN, Unit.HOUR, reading.timestamp(), reading.quality(),
                     "no forecast: " + Texts.reading(reading)));

@@ -31,7 +31,6 @@ final class LimitEvaluator extends RuleEvaluator {
 
     @Override
     void onReading(ChannelNode node, Reading reading) {
-        saw(node);
         Quality quality = reading.quality();
         if (quality == Quality.BAD || quality == Quality.STALE) {
             return;
@@ -43,6 +42,13 @@ final class LimitEvaluator extends RuleEvaluator {
             }
         } else if (quality == Quality.GOOD && (high ? value <= setpoint - deadband : value >= setpoint + deadband)) {
             change(false, reading, Texts.reading(reading) + backText);
+        }
+        // A GOOD value on this side of the setpoint (or, once past, short of the deadband) changes nothing.
+        if (!raw) {
+            quietBetween(0, high ? Double.NEGATIVE_INFINITY : setpoint, high ? setpoint : Double.POSITIVE_INFINITY);
+        } else {
+            quietBetween(0, high ? setpoint - deadband : Double.NEGATIVE_INFINITY,
+                    high ? Double.POSITIVE_INFINITY : setpoint + deadband);
         }
     }
 }

@@ -15,8 +15,19 @@ final class MeasuredChannel extends ChannelNode {
     private final Core core;
     private final ChannelDef def;
     private final Optional<ValueRange> validRange;
+    /**
+     * The valid range's ends, kept here (minus and plus infinity without a range) so that the check on every
+     * reading reads this object only.
+     */
+    private final double validMin;
+    private final double validMax;
     final long staleAfterNanos;
     private long lastArrival;
+    /**
+     * Whether {@link #staleTimer} is queued, mirrored here so that an arrival reads this object only: the timer is
+     * queued from {@link #start} on and leaves the queue only to expire, when it re-arms or lets go.
+     */
+    private boolean staleArmed;
     private final Timer staleTimer = new Timer() {
         @Override
         void expire() {
@@ -29,13 +40,15 @@ final class MeasuredChannel extends ChannelNode {
         this.core = core;
         this.def = def;
         this.validRange = def.validRange();
+        this.validMin = validRange.map(ValueRange::min).orElse(Double.NEGATIVE_INFINITY);
+        this.validMax = validRange.map(ValueRange::max).orElse(Double.POSITIVE_INFINITY);
         this.staleAfterNanos = def.staleAfter().toNanos();
     }
 
     /** Starts the stale timeout from now, as if a reading had just been expected. */
     void start(long now) {
         lastArrival = now;
-        core.timers.schedule(staleTimer, now + staleAfterNanos);
+        armStale(now + staleAfterNanos);
     }
 
     /** The reading as the rules see it: in this channel's unit, BAD when implausible. */
@@ -56,7 +69,7 @@ final class MeasuredChannel extends ChannelNode {
                 return admitted.withQuality(Quality.BAD, "no value"
                         + (admitted.reason().isEmpty() ? "" : " (" + admitted.reason() + ")"));
             }
-            if (validRange.isPresent() && !validRange.get().contains(value)) {
+            if (!(value >= validMin && value <= validMax)) {
                 ValueRange range = validRange.get();
                 return admitted.withQuality(Quality.BAD, "value " + Texts.quantity(value, unit)
                         + " outside the valid range " + Texts.number(range.min()) + " to "
@@ -68,15 +81,21 @@ final class MeasuredChannel extends ChannelNode {
 
     void arrived(long now) {
         lastArrival = now;
-        if (!staleTimer.queued) {
-            core.timers.schedule(staleTimer, now + staleAfterNanos);
+        if (!staleArmed) {
+            armStale(now + staleAfterNanos);
         }
     }
 
+    private void armStale(long due) {
+        staleArmed = true;
+        core.timers.schedule(staleTimer, due);
+    }
+
     private void staleTimeout() {
+        staleArmed = false;
         long due = lastArrival + staleAfterNanos;
         if (due - core.now > 0) {
-            core.timers.schedule(staleTimer, due);
+            armStale(due);
             return;
         }
         if (latest == null || latest.quality() != Quality.STALE) {

@@ -58,7 +58,6 @@ final class RateEvaluator extends RuleEvaluator {
 
     @Override
     void onReading(ChannelNode node, Reading reading) {
-        saw(node);
         if (reading.quality() != Quality.GOOD) {
             return;
         }

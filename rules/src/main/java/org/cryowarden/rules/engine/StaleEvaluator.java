@@ -23,7 +23,6 @@ final class StaleEvaluator extends RuleEvaluator {
     private final long staleGraceNanos;
     /** Whether the channel's own stale timeout notices silence after a GOOD reading before this rule would. */
     private final boolean coveredByChannel;
-    private long lastGood;
     private final Timer timer = new Timer() {
         @Override
         void expire() {
@@ -48,24 +47,25 @@ final class StaleEvaluator extends RuleEvaluator {
     }
 
     void start(long now) {
-        lastGood = now;
+        input(0).lastGood = now;
         if (!coveredByChannel) {
             core.timers.schedule(timer, now + timeoutNanos);
         }
+        settleBand();
     }
 
     @Override
     void onReading(ChannelNode node, Reading reading) {
-        saw(node);
         Quality quality = reading.quality();
+        long lastGood = node.lastGood;
         if (quality == Quality.GOOD) {
-            lastGood = core.now;
             if (!coveredByChannel && !timer.queued) {
                 core.timers.schedule(timer, lastGood + timeoutNanos);
             }
             if (raw) {
                 change(false, reading, channel + " GOOD again");
             }
+            settleBand();
             return;
         }
         if (!timer.queued && !raw) {
@@ -80,10 +80,23 @@ final class StaleEvaluator extends RuleEvaluator {
             // the channel's stale timeout (or the rule's, if shorter) since the last GOOD reading has run out.
             change(true, reading, Texts.reading(reading));
         }
+        settleBand();
+    }
+
+    /**
+     * A GOOD reading changes nothing here (the channel keeps its time) while the fault is clear and either the
+     * channel's own timeout covers silence or this rule's timer runs.
+     */
+    private void settleBand() {
+        if (!raw && (coveredByChannel || timer.queued)) {
+            quietBetween(0, Double.NEGATIVE_INFINITY, Double.POSITIVE_INFINITY);
+        } else {
+            quietBetween(0, Double.NaN, Double.NaN);
+        }
     }
 
     private void timeout() {
-        long due = lastGood + timeoutNanos;
+        long due = input(0).lastGood + timeoutNanos;
         if (due - core.now > 0) {
             if (!(coveredByChannel && latestGood())) {
                 core.timers.schedule(timer, due);
@@ -91,10 +104,12 @@ final class StaleEvaluator extends RuleEvaluator {
         } else if (!raw) {
             change(true, null, "no GOOD reading of " + channel + " for " + Texts.nanos(timeoutNanos));
         }
+        settleBand();
     }
 
     /** Whether the channel's latest reading, as this rule saw it, is GOOD (false before any reading). */
     private boolean latestGood() {
-        return lastNode != null && lastNode.latest != null && lastNode.latest.quality() == Quality.GOOD;
+        ChannelNode node = lastNode();
+        return node != null && node.latest != null && node.latest.quality() == Quality.GOOD;
     }
 }

@@ -11,15 +11,23 @@ import org.cryowarden.rules.model.Direction;
  */
 final class VoteEvaluator extends RuleEvaluator {
 
+    /** The most channels one vote reads: each channel's flags are one bit of a {@code long}. */
+    static final int MAX_CHANNELS = Long.SIZE;
+
     private final ChannelNode[] channels;
     private final int required;
     private final boolean high;
-    private final double[] setpoints;
-    private final double[] deadbands;
+    /**
+     * Per channel, side by side: the value past which it trips, then the value back past which it clears (the
+     * setpoint less or plus the deadband), so that a reading reads one place in memory besides this object.
+     */
+    private final double[] limits;
     private final boolean faultTrips;
-    private final boolean[] tripped;
-    private final boolean[] faulted;
-    private final boolean[] reported;
+    /** Bit {@code i} set: channel {@code i} tripped, faulted (BAD or STALE last), reported at least once. */
+    private long tripped;
+    private long faulted;
+    private long reported;
+    private final long everyChannel;
     private final String setpointText;
     private int count;
     private boolean holdUntilAllReported;
@@ -27,15 +35,19 @@ final class VoteEvaluator extends RuleEvaluator {
     VoteEvaluator(AlarmRuntime alarm, ChannelNode[] channels, int required, Direction direction, double[] setpoints,
             double[] deadbands, boolean faultTrips, String setpointText) {
         super(alarm);
+        if (channels.length > MAX_CHANNELS) {
+            throw new IllegalStateException("a vote of " + channels.length + " channels reached the engine");
+        }
         this.channels = channels;
         this.required = required;
         this.high = direction == Direction.HIGH;
-        this.setpoints = setpoints;
-        this.deadbands = deadbands;
+        this.limits = new double[2 * channels.length];
+        for (int i = 0; i < channels.length; i++) {
+            limits[2 * i] = setpoints[i];
+            limits[2 * i + 1] = high ? setpoints[i] - deadbands[i] : setpoints[i] + deadbands[i];
+        }
         this.faultTrips = faultTrips;
-        this.tripped = new boolean[channels.length];
-        this.faulted = new boolean[channels.length];
-        this.reported = new boolean[channels.length];
+        this.everyChannel = channels.length == Long.SIZE ? -1L : (1L << channels.length) - 1;
         this.setpointText = setpointText;
     }
 
@@ -46,38 +58,41 @@ final class VoteEvaluator extends RuleEvaluator {
 
     @Override
     void onInput(ChannelNode node, int i, Reading reading) {
-        saw(node);
-        if (!reported[i]) {
-            reported[i] = true;
+        long bit = 1L << i;
+        if ((reported & bit) == 0) {
+            reported |= bit;
         }
-        boolean was = tripped[i];
+        boolean was = (tripped & bit) != 0;
         boolean now;
         Quality quality = reading.quality();
         if (quality == Quality.BAD || quality == Quality.STALE) {
-            faulted[i] = true;
+            faulted |= bit;
             now = faultTrips;
         } else {
             double value = reading.value();
-            boolean past = high ? value > setpoints[i] : value < setpoints[i];
-            boolean clear = high ? value <= setpoints[i] - deadbands[i] : value >= setpoints[i] + deadbands[i];
+            double setpoint = limits[2 * i];
+            double clearAt = limits[2 * i + 1];
+            boolean past = high ? value > setpoint : value < setpoint;
+            boolean clear = high ? value <= clearAt : value >= clearAt;
+            boolean wasFaulted = (faulted & bit) != 0;
             if (past) {
                 now = true;
-            } else if (quality == Quality.GOOD && (clear || faulted[i])) {
+            } else if (quality == Quality.GOOD && (clear || wasFaulted)) {
                 now = false;
             } else {
                 now = was;
             }
-            if (quality == Quality.GOOD && faulted[i]) {
-                faulted[i] = false;
+            if (quality == Quality.GOOD && wasFaulted) {
+                faulted &= ~bit;
             }
         }
         if (now != was) {
-            tripped[i] = now;
+            tripped ^= bit;
             count += now ? 1 : -1;
         }
         boolean met = count >= required;
         if (holdUntilAllReported) {
-            if (!allReported()) {
+            if (reported != everyChannel) {
                 return;
             }
             holdUntilAllReported = false;
@@ -85,20 +100,24 @@ final class VoteEvaluator extends RuleEvaluator {
         if (met != raw) {
             change(met, reading, describe(met));
         }
+        // Once every channel reported and this one is not faulted, a GOOD value that leaves it tripped or not as it
+        // is changes nothing (the count, and so the condition, stay).
+        boolean isTripped = (tripped & bit) != 0;
+        if ((faulted & bit) != 0) {
+            quietBetween(i, Double.NaN, Double.NaN);
+        } else if (isTripped) {
+            double clearAt = limits[2 * i + 1];
+            quietBetween(i, high ? clearAt : Double.NEGATIVE_INFINITY, high ? Double.POSITIVE_INFINITY : clearAt);
+        } else {
+            double setpoint = limits[2 * i];
+            quietBetween(i, high ? Double.NEGATIVE_INFINITY : setpoint, high ? setpoint : Double.POSITIVE_INFINITY);
+        }
     }
 
     @Override
     void restoredActive() {
         holdUntilAllReported = true;
-    }
-
-    private boolean allReported() {
-        for (boolean each : reported) {
-            if (!each) {
-                return false;
-            }
-        }
-        return true;
+        neverQuiet();
     }
 
     private String describe(boolean met) {
@@ -108,7 +127,7 @@ final class VoteEvaluator extends RuleEvaluator {
                 .append(setpointText).append(faultTrips ? " or faulted" : "");
         String separator = " (";
         for (int i = 0; i < channels.length; i++) {
-            if (tripped[i] && channels[i].latest != null) {
+            if ((tripped & (1L << i)) != 0 && channels[i].latest != null) {
                 text.append(separator).append(Texts.reading(channels[i].latest));
                 separator = ", ";
             }

@@ -330,6 +330,9 @@ final class Wiring {
         if (rule instanceof VoteRule) {
             VoteRule vote = (VoteRule) rule;
             int n = vote.channels().size();
+            if (n > VoteEvaluator.MAX_CHANNELS) {
+                throw refuse(rule, "a vote reads at most " + VoteEvaluator.MAX_CHANNELS + " channels, got " + n);
+            }
             ChannelNode[] channels = new ChannelNode[n];
             double[] setpoints = new double[n];
             double[] deadbands = new double[n];

@@ -18,6 +18,7 @@ import org.cryowarden.rules.model.InterlockDef;
 import org.cryowarden.rules.model.LimitRule;
 import org.cryowarden.rules.model.OutputAction;
 import org.cryowarden.rules.model.Priority;
+import org.cryowarden.rules.model.VoteRule;
 import org.junit.jupiter.api.Test;
 
 /** The engine refuses inconsistent configurations, naming the item and where it was written. */
@@ -32,6 +33,21 @@ class EngineConfigTest {
         assertThatThrownBy(site::engine).isInstanceOf(IllegalArgumentException.class).hasMessage(
                 "hall-rules.yaml:12:5: rule level_low: the setpoint 4.2 K is a temperature (K, mK, °C) "
                         + "but the channel is in %, a fraction (%)");
+    }
+
+    @Test
+    void voteOverMoreThanSixtyFourChannelsIsRefused() {
+        Site site = new Site();
+        List<String> heads = new java.util.ArrayList<>();
+        for (int i = 0; i < 65; i++) {
+            site.channel("o2_head_" + i, Unit.PERCENT_VOLUME);
+            heads.add("o2_head_" + i);
+        }
+        site.rule(new VoteRule("o2_hall_vote", heads, 2, Direction.LOW, q("19.5 %vol"), q("0.2 %vol"), true,
+                alarm(Priority.HIGH, "hall oxygen low"), RULE_AT));
+
+        assertThatThrownBy(site::engine).isInstanceOf(IllegalArgumentException.class)
+                .hasMessage("hall-rules.yaml:12:5: rule o2_hall_vote: a vote reads at most 64 channels, got 65");
     }
 
     @Test
