@@ -4,34 +4,33 @@ import java.util.Map;
 
 /**
  * The measured channels by id, for the one lookup every reading makes. An open-addressed table of ids and channels
- * side by side: a reading's id is usually the very string the configuration was built from (drivers take their ids
- * from it), so the probe ends on a reference comparison in the key array, without the entry object and pointer
- * hops of a hash map. Each slot's hash sits in an array beside, so that a probe passing another channel's slot
- * rejects it without reading that id's characters; strings of equal hash are compared by content. Built once;
- * never changes.
+ * side by side in one array: a reading's id is usually the very string the configuration was built from (drivers
+ * take their ids from it), so the probe ends on a reference comparison in the slot that holds the channel too,
+ * without the entry object and pointer hops of a hash map. Each slot's hash sits in an array beside, so that a
+ * probe passing another channel's slot rejects it without reading that id's characters; strings of equal hash are
+ * compared by content. Built once; never changes.
  */
 final class MeasuredIndex {
 
-    private final String[] ids;
+    /** Each slot's id and channel side by side ({@code 2 * slot}, {@code 2 * slot + 1}): one cache line a probe. */
+    private final Object[] slots;
     private final int[] hashes;
-    private final MeasuredChannel[] channels;
     private final int mask;
 
     MeasuredIndex(Map<String, MeasuredChannel> measured) {
         int capacity = Integer.highestOneBit(Math.max(4, measured.size() * 4) - 1) << 1;
-        ids = new String[capacity];
+        slots = new Object[2 * capacity];
         hashes = new int[capacity];
-        channels = new MeasuredChannel[capacity];
         mask = capacity - 1;
         for (Map.Entry<String, MeasuredChannel> entry : measured.entrySet()) {
             int hash = entry.getKey().hashCode();
             int slot = spread(hash) & mask;
-            while (ids[slot] != null) {
+            while (slots[2 * slot] != null) {
                 slot = (slot + 1) & mask;
             }
-            ids[slot] = entry.getKey();
+            slots[2 * slot] = entry.getKey();
+            slots[2 * slot + 1] = entry.getValue();
             hashes[slot] = hash;
-            channels[slot] = entry.getValue();
         }
     }
 
@@ -39,10 +38,10 @@ final class MeasuredIndex {
     MeasuredChannel get(String id) {
         int hash = id.hashCode();
         int slot = spread(hash) & mask;
-        String key;
-        while ((key = ids[slot]) != null) {
+        Object key;
+        while ((key = slots[2 * slot]) != null) {
             if (key == id || hashes[slot] == hash && key.equals(id)) {
-                return channels[slot];
+                return (MeasuredChannel) slots[2 * slot + 1];
             }
             slot = (slot + 1) & mask;
         }

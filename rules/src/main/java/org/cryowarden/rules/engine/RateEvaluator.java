@@ -21,11 +21,8 @@ final class RateEvaluator extends RuleEvaluator {
     private final long windowNanos;
     /** Threshold in channel units per second. */
     private final double perSecond;
-    private final Unit channelUnit;
-    private final Unit changeUnit;
-    private final double perSeconds;
-    private final String rateUnit;
-    private final String thresholdText;
+    /** What the cause says, read only when the condition changes: kept apart so this object is the fit alone. */
+    private final Wording wording;
 
     /**
      * The window's points, time and value side by side (value as raw double bits), so that taking the oldest point
@@ -49,11 +46,7 @@ final class RateEvaluator extends RuleEvaluator {
         this.rising = direction == Direction.HIGH;
         this.perSecond = perSecond;
         this.windowNanos = windowNanos;
-        this.channelUnit = channelUnit;
-        this.changeUnit = changeUnit;
-        this.perSeconds = perSeconds;
-        this.rateUnit = rateUnit;
-        this.thresholdText = thresholdText;
+        this.wording = new Wording(channelUnit, changeUnit, perSeconds, rateUnit, thresholdText);
     }
 
     @Override
@@ -71,10 +64,18 @@ final class RateEvaluator extends RuleEvaluator {
         double slope = (n * sumXY - sumX * sumY) / (n * sumXX - sumX * sumX);
         boolean past = rising ? slope > perSecond : slope < -perSecond;
         if (past != raw) {
+            change(past, reading, wording.cause(node.id, rising, past, slope));
+        }
+    }
+
+    /** The rule's units and threshold as its causes name them. */
+    private record Wording(Unit channelUnit, Unit changeUnit, double perSeconds, String rateUnit,
+            String thresholdText) {
+
+        String cause(String channel, boolean rising, boolean past, double slope) {
             double shown = channelUnit.differenceTo(changeUnit, slope) * perSeconds;
-            change(past, reading, node.id + (rising ? " rising at " : " falling at ")
-                    + Texts.number(Math.abs(shown)) + " " + rateUnit
-                    + (past ? ", faster than " : ", no faster than ") + thresholdText);
+            return channel + (rising ? " rising at " : " falling at ") + Texts.number(Math.abs(shown)) + " "
+                    + rateUnit + (past ? ", faster than " : ", no faster than ") + thresholdText;
         }
     }
 
