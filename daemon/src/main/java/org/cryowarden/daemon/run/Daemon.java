@@ -96,6 +96,8 @@ public final class Daemon implements AutoCloseable {
     private final String brokerUri;
     private final EngineLoop loop;
     private final JournalSink journalSink;
+    /** Holds the pollers and the readings publisher back while an alarm is on its way to the journal. */
+    private final AlarmPathGate alarmPath;
     private final MqttBridge bridge;
     private final OutputWriter outputs;
     private final HistoryRecorder history;
@@ -142,12 +144,15 @@ public final class Daemon implements AutoCloseable {
         }
         LOG.info("{}", history.restartNote());
         this.journalSink = new JournalSink(journal, settings.prefix() + "/event");
+        JournalSink sink = journalSink;
+        this.alarmPath = new AlarmPathGate(() -> !sink.idle());
         OutputWriterRef outputRef = new OutputWriterRef();
         MqttBridgeRef bridgeRef = new MqttBridgeRef();
         this.loop = new EngineLoop(engine, configuration.site(), time, options.tickEvery(), new EngineLoop.Sinks() {
             @Override
             public void batch(EventBatch batch) {
                 journalSink.offer(batch);
+                alarmPath.entered();
             }
 
             @Override
@@ -185,6 +190,7 @@ public final class Daemon implements AutoCloseable {
                 new ReportByException(settings.deadbands(), settings.maxInterval()), this::command,
                 this::commandRefused);
         bridgeRef.bridge = bridge;
+        bridge.yieldTo(alarmPath);
         journalSink.addListener(bridge);
         this.notifications = night.notifiers().map(setup -> setup.service(journal, time, configuration.site().name()));
         this.contact = night.commonAlarm().map(c -> new CommonAlarmContact(c, time, outputs::offer));
@@ -298,7 +304,7 @@ public final class Daemon implements AutoCloseable {
         if (options.mode() == Mode.THREADS) {
             loop.start();
             for (BusPoller poller : pollers) {
-                poller.start(settings.spreadPolls());
+                poller.start(settings.spreadPolls(), alarmPath);
             }
             notifications.ifPresent(NotifyService::start);
             watchdog.start();
@@ -657,7 +663,7 @@ public final class Daemon implements AutoCloseable {
             BusPoller poller = SiteDrivers.poller(bus, SiteDrivers.context(fresh.site(), time), catalog, time,
                     loop::offer, options.backoff());
             if (options.mode() == Mode.THREADS) {
-                poller.start(settings.spreadPolls());
+                poller.start(settings.spreadPolls(), alarmPath);
             }
             LOG.info("reload: bus '{}' {}", bus.id(), current == null ? "added" : "changed; its poller restarted");
             next.add(poller);

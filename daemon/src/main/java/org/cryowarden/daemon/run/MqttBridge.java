@@ -6,6 +6,7 @@ import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
+import java.util.Objects;
 import java.util.Optional;
 import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.TimeUnit;
@@ -19,6 +20,7 @@ import org.cryowarden.daemon.mqtt.ConnectionListener;
 import org.cryowarden.daemon.mqtt.IncomingMessage;
 import org.cryowarden.daemon.mqtt.MqttLink;
 import org.cryowarden.daemon.mqtt.OutgoingMessage;
+import org.cryowarden.drivers.poll.TransactionGate;
 import org.cryowarden.rules.Reading;
 import org.cryowarden.rules.TimeSource;
 import org.slf4j.Logger;
@@ -84,6 +86,8 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
     private String journalProblem;
 
     private final AtomicLong readingsPublished = new AtomicLong();
+    /** Asked before each slice of readings ({@link #yieldTo}). */
+    private TransactionGate gate = TransactionGate.OPEN;
     private final AtomicLong commandsRefused = new AtomicLong();
     private final AtomicLong aggregateFailures = new AtomicLong();
     private volatile CompletableFuture<Void> commandsGranted = new CompletableFuture<>();
@@ -286,6 +290,14 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
         }
     }
 
+    /**
+     * Asks {@code gate} before each slice of readings, so that an alarm on its way out goes first. Set before
+     * {@link #start}.
+     */
+    void yieldTo(TransactionGate gate) {
+        this.gate = Objects.requireNonNull(gate, "gate");
+    }
+
     private void readingLoop() {
         boolean streaming = false;
         long lastTake = System.nanoTime();
@@ -321,6 +333,9 @@ final class MqttBridge implements JournalSink.Listener, AutoCloseable {
                 lock.unlock();
             }
             streaming = !readings.isEmpty();
+            if (streaming) {
+                gate.awaitTurn();
+            }
             lastTake = System.nanoTime();
             long now = time.monotonicNanos();
             if (everything) {

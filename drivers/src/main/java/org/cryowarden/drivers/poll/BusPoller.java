@@ -67,6 +67,8 @@ public final class BusPoller implements AutoCloseable {
     private String downReason = "not opened yet";
     private volatile boolean running;
     private Thread thread;
+    /** Set before the thread starts ({@link #start(boolean, TransactionGate)}). */
+    private TransactionGate gate = TransactionGate.OPEN;
 
     public BusPoller(String busId, Transport transport, List<PolledInstrument> instruments, TimeSource time,
             ReadingSink sink, Backoff backoff) {
@@ -105,6 +107,7 @@ public final class BusPoller implements AutoCloseable {
         long next = Long.MAX_VALUE;
         for (Polled instrument : polled) {
             if (now - instrument.nextDue >= 0) {
+                gate.awaitTurn();
                 poll(instrument.instrument, instrument.takeDue(now), now);
             }
             next = earlier(next, instrument.nextDue);
@@ -198,7 +201,13 @@ public final class BusPoller implements AutoCloseable {
      * driven poller polls: fewer wake-ups (less CPU on a small server), but an alarm's reading waits behind the
      * whole bus's round.
      */
-    public synchronized void start(boolean spread) {
+    public void start(boolean spread) {
+        start(spread, TransactionGate.OPEN);
+    }
+
+    /** As {@link #start(boolean)}, asking {@code gate} before each transaction. */
+    public synchronized void start(boolean spread, TransactionGate gate) {
+        gatedBy(gate);
         if (thread != null) {
             throw new IllegalStateException("poller of bus '" + busId + "' already started");
         }
@@ -206,6 +215,11 @@ public final class BusPoller implements AutoCloseable {
         thread = new Thread(() -> loop(spread), "poller " + busId);
         thread.setDaemon(true);
         thread.start();
+    }
+
+    /** Asks {@code gate} before each transaction from now on; before {@link #start}, or when driven. */
+    void gatedBy(TransactionGate gate) {
+        this.gate = Objects.requireNonNull(gate, "gate");
     }
 
     /** Stops the thread (waiting for the current transaction to finish, bounded) and closes the transport. */

@@ -218,6 +218,20 @@ class BusPollerTest {
     }
 
     @Test
+    void theGateIsAskedBeforeEachInstrumentsTransaction() {
+        List<String> order = new ArrayList<>();
+        List<PolledInstrument> meters = List.of(counting("meter-0", Duration.ofSeconds(1)),
+                counting("meter-1", Duration.ofSeconds(1)), counting("meter-2", Duration.ofSeconds(1)));
+        BusPoller poller = new BusPoller("hall-b", transport, meters, time, reading -> order.add(reading.channel()),
+                Backoff.DEFAULT);
+        poller.gatedBy(() -> order.add("gate"));
+
+        poller.runDue();
+
+        assertThat(order).containsExactly("gate", "meter-0", "gate", "meter-1", "gate", "meter-2");
+    }
+
+    @Test
     void periodsTooShortForTwoPhasesKeepTheInstrumentsTogether() {
         List<PolledInstrument> meters = List.of(counting("meter-0", Duration.ofMillis(30)),
                 counting("meter-1", Duration.ofMillis(30)), counting("meter-2", Duration.ofSeconds(5)));
