@@ -32,7 +32,10 @@ abstract class ChannelNode {
     Reading latest;
     /** The engine's delivery count at this channel's latest reading: which input of a rule read last; 0 before. */
     long delivered;
-    /** Monotonic time of the latest GOOD reading, or of the engine's start before any. */
+    /**
+     * Monotonic time of the latest GOOD reading, or of the engine's start before any (set there by the stale rules
+     * that read this channel).
+     */
     long lastGood;
 
     ChannelNode(String id, Unit unit) {

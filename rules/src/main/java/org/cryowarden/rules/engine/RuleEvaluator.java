@@ -27,7 +27,10 @@ abstract class RuleEvaluator {
         this.alarm = alarm;
     }
 
-    /** Called by {@link ChannelNode#addRule}: {@code node} is input number {@code input}, keeping this rule at {@code slot}. */
+    /**
+     * Called by {@link ChannelNode#addRule}: {@code node} is input number {@code input}, keeping this rule at
+     * {@code slot}.
+     */
     final void attached(ChannelNode node, int input, int slot) {
         if (input >= inputs.length) {
             inputs = java.util.Arrays.copyOf(inputs, input + 1);
