@@ -28,8 +28,8 @@ final class RateEvaluator extends RuleEvaluator {
      * The window's points, time and value side by side (value as raw double bits), so that taking the oldest point
      * and adding the newest each touch one place in memory; a ring of {@code capacity} points.
      */
-    private long[] points = new long[32];
-    private int capacity = 16;
+    private long[] points;
+    private int capacity;
     private int head;
     private int size;
     private long base;
@@ -40,8 +40,13 @@ final class RateEvaluator extends RuleEvaluator {
     private int evictionsSinceRecompute;
 
     RateEvaluator(AlarmRuntime alarm, Core core, Direction direction, double perSecond, long windowNanos,
-            Unit channelUnit, Unit changeUnit, double perSeconds, String rateUnit, String thresholdText) {
+            Unit channelUnit, Unit changeUnit, double perSeconds, String rateUnit, String thresholdText,
+            int expectedPoints) {
         super(alarm);
+        // Sized once for the window's points at the channel's period, allocated beside this rule rather than grown
+        // later somewhere else in the heap; it still grows if readings come faster.
+        this.capacity = Math.max(16, Integer.highestOneBit(Math.max(1, expectedPoints) - 1) << 1);
+        this.points = new long[2 * capacity];
         this.core = core;
         this.rising = direction == Direction.HIGH;
         this.perSecond = perSecond;

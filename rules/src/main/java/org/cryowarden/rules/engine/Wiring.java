@@ -43,6 +43,8 @@ final class Wiring {
     private final Map<String, SourcePosition> defined = new HashMap<>();
     /** Stale timeout of each channel, derived channels inheriting the longest of their inputs. */
     private final Map<String, Long> staleAfter = new HashMap<>();
+    /** Polling period of each measured channel: how many points a rate rule's window will hold. */
+    private final Map<String, Long> periods = new HashMap<>();
     private final List<StaleEvaluator> staleRules = new ArrayList<>();
 
     private Wiring(EngineConfig config, TimeSource time, DerivedFunctions functions) {
@@ -77,6 +79,7 @@ final class Wiring {
             core.measured.put(def.id(), channel);
             core.channels.put(def.id(), channel);
             staleAfter.put(def.id(), def.staleAfter().toNanos());
+            periods.put(def.id(), def.period().toNanos());
         }
     }
 
@@ -310,9 +313,11 @@ final class Wiring {
             double perSeconds = rate.per().toNanos() * 1e-9;
             String perText = per(rate.per());
             String rateUnit = rate.change().unit().symbol() + "/" + perText;
+            long period = periods.getOrDefault(rate.channel(), 0L);
+            int expected = period > 0 ? (int) Math.min(1 << 20, rate.window().toNanos() / period + 2) : 0;
             return new RateEvaluator(alarm, core, rate.direction(), change / perSeconds, rate.window().toNanos(), unit,
                     rate.change().unit(), perSeconds, rateUnit,
-                    Texts.number(rate.change().value()) + " " + rateUnit);
+                    Texts.number(rate.change().value()) + " " + rateUnit, expected);
         }
         if (rule instanceof StaleRule) {
             StaleRule stale = (StaleRule) rule;
