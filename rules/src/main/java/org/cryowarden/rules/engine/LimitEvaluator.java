@@ -45,10 +45,9 @@ final class LimitEvaluator extends RuleEvaluator {
         }
         // A GOOD value on this side of the setpoint (or, once past, short of the deadband) changes nothing.
         if (!raw) {
-            quietBetween(0, high ? Double.NEGATIVE_INFINITY : setpoint, high ? setpoint : Double.POSITIVE_INFINITY);
+            quietBeyond(0, !high, setpoint);
         } else {
-            quietBetween(0, high ? setpoint - deadband : Double.NEGATIVE_INFINITY,
-                    high ? Double.POSITIVE_INFINITY : setpoint + deadband);
+            quietBeyond(0, high, high ? setpoint - deadband : setpoint + deadband);
         }
     }
 }

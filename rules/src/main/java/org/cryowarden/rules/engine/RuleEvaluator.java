@@ -74,6 +74,14 @@ abstract class RuleEvaluator {
         }
     }
 
+    /**
+     * {@link #quietBetween} for the values strictly above {@code threshold} ({@code above}) or strictly below it:
+     * the side of a setpoint, or of its clearing value, on which a condition stays as it is.
+     */
+    final void quietBeyond(int input, boolean above, double threshold) {
+        quietBetween(input, above ? threshold : Double.NEGATIVE_INFINITY, above ? Double.POSITIVE_INFINITY : threshold);
+    }
+
     /** Takes back the promises of every input: each reading is evaluated until the rule names a band again. */
     final void neverQuiet() {
         for (int i = 0; i < inputs.length; i++) {

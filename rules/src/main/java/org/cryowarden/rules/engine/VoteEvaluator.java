@@ -100,17 +100,14 @@ final class VoteEvaluator extends RuleEvaluator {
         if (met != raw) {
             change(met, reading, describe(met));
         }
-        // Once every channel reported and this one is not faulted, a GOOD value that leaves it tripped or not as it
-        // is changes nothing (the count, and so the condition, stay).
-        boolean isTripped = (tripped & bit) != 0;
+        // Past the hold after a restore, and this channel not faulted: a GOOD value that leaves it tripped or not as
+        // it is changes nothing (the count, and so the condition, stay).
         if ((faulted & bit) != 0) {
             quietBetween(i, Double.NaN, Double.NaN);
-        } else if (isTripped) {
-            double clearAt = limits[2 * i + 1];
-            quietBetween(i, high ? clearAt : Double.NEGATIVE_INFINITY, high ? Double.POSITIVE_INFINITY : clearAt);
+        } else if ((tripped & bit) != 0) {
+            quietBeyond(i, high, limits[2 * i + 1]);
         } else {
-            double setpoint = limits[2 * i];
-            quietBetween(i, high ? Double.NEGATIVE_INFINITY : setpoint, high ? setpoint : Double.POSITIVE_INFINITY);
+            quietBeyond(i, !high, limits[2 * i]);
         }
     }
 
